@@ -1,0 +1,13 @@
+using System.CommandLine;
+
+namespace Spatial.Cli;
+
+/// <summary>The verbs of the command, in the order <c>--help</c> lists them. Each verb lives in <c>Verbs/</c>.</summary>
+internal static class VerbList
+{
+    public static IEnumerable<Command> Create(CliEnv env)
+    {
+        _ = env;
+        yield break;
+    }
+}
