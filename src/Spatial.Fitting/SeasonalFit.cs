@@ -47,6 +47,7 @@ public static class SeasonalFit
         }
 
         Report(progress, 0.0);
+        var sw = StageTimer.Start();
         var mean = Covariance.Mean(matrix, train, null, po, out var dayCounts);
         var usable = dayCounts.Count(c => c > 0);
         if (usable < k)
@@ -54,9 +55,12 @@ public static class SeasonalFit
             throw new SpatialDataException("season matrix", 0, $"only {usable} days are ever observed; {k} components need at least as many", "ask for fewer components");
         }
 
+        StageTimer.Lap(sw, "mean");
         Report(progress, 0.05);
         var cov = Covariance.Estimate(matrix, train, mean, null, po, f => Report(progress, 0.05 + (0.45 * f)), out _);
+        StageTimer.Lap(sw, "covariance");
         var (values, vectors) = SymmetricEigen.Decompose(cov, Layout.Days);
+        StageTimer.Lap(sw, "eigen");
         var steps = new List<RefinementStep>();
         var converged = true;
         var method = "pairwise";
@@ -92,7 +96,9 @@ public static class SeasonalFit
         // First scoring, then orientation from the metrics, then the sign flip applied to the scores.
         var projector = new GappyProjector(mean, components, options.Ridge);
         var scores = Scoring.Score(matrix, projector, options.MetricRules, po, f => Report(progress, 0.6 + (0.3 * f)));
+        StageTimer.Lap(sw, "projection and metrics");
         var correlations = Correlations(scores, train, k);
+        StageTimer.Lap(sw, "correlations");
         var labels = Interpreter.Label(components, correlations, options.LabelMinCorrelation);
         for (var c = 0; c < k; c++)
         {
@@ -111,9 +117,11 @@ public static class SeasonalFit
         }
 
         scores = scores.WithSigns(labels.Select(l => l.Sign).ToArray());
+        StageTimer.Lap(sw, "orientation");
         Report(progress, 0.92);
 
         var nStar = Statistics.EffectiveSeasons(matrix.Keys, train, r => scores.Coefficient(r, 0), out var icc, out var r1);
+        StageTimer.Lap(sw, "effective sample size");
         var north = eig.Select(l => l * Math.Sqrt(2.0 / nStar)).ToArray();
         var separable = new bool[k];
         for (var c = 0; c < k; c++)
@@ -130,6 +138,7 @@ public static class SeasonalFit
         }
 
         var training = Enumerable.Range(0, k).Select(c => Distribution(train.Select(r => scores.Coefficient(r, c)))).ToArray();
+        StageTimer.Lap(sw, "training distribution");
         var provenance = new SortedDictionary<string, string>(StringComparer.Ordinal)
         {
             ["method"] = method,
@@ -171,7 +180,9 @@ public static class SeasonalFit
             labels[c].Metric,
             labels[c].Rule)).ToArray();
         var interpretation = Selections.Build(matrix, scores, train, basis, labelRecords, options);
+        StageTimer.Lap(sw, "selections");
         var stations = StationSummaries.Build(scores, train, po);
+        StageTimer.Lap(sw, "station summaries");
         Report(progress, 1.0);
         return new FitResult(basis, scores, stations, interpretation, steps.ToArray(), converged, values);
     }

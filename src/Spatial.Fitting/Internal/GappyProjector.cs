@@ -58,7 +58,7 @@ internal sealed class GappyProjector
     public int ScratchLength => (K * K) + K + (2 * Layout.Days);
 
     /// <summary>Projects one row; writes K coefficients and K+1 residuals.</summary>
-    public void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch)
+    public unsafe void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch)
     {
         var k = K;
         var g = scratch[..(k * k)];
@@ -68,24 +68,28 @@ internal sealed class GappyProjector
         b.Clear();
         var n = 0;
         var yy = 0.0;
-        for (var d = 0; d < Layout.Days; d++)
+        fixed (float* px = row)
+        fixed (double* pm = mean, pv = byDay, pb = b, pys = ys, pdays = days)
         {
-            var x = row[d];
-            var m = mean[d];
-            if (float.IsNaN(x) || double.IsNaN(m))
+            for (var d = 0; d < Layout.Days; d++)
             {
-                continue;
-            }
+                var x = px[d];
+                var m = pm[d];
+                if (float.IsNaN(x) || double.IsNaN(m))
+                {
+                    continue;
+                }
 
-            var y = x - m;
-            ys[n] = y;
-            days[n] = d;
-            n++;
-            yy += y * y;
-            var v = byDay.AsSpan(d * k, k);
-            for (var a = 0; a < k; a++)
-            {
-                b[a] += v[a] * y;
+                var y = x - m;
+                pys[n] = y;
+                pdays[n] = d;
+                n++;
+                yy += y * y;
+                var v = pv + (d * k);
+                for (var a = 0; a < k; a++)
+                {
+                    pb[a] += v[a] * y;
+                }
             }
         }
 
@@ -97,32 +101,35 @@ internal sealed class GappyProjector
         }
 
         // Gram matrix over observed days: built directly, or as full minus missing when fewer are missing.
-        if (2 * n >= usableDays)
+        fixed (double* pg = g, pv = byDay, pdays = days, pm = mean)
         {
-            fullGram.CopyTo(g);
-            var j = 0;
-            for (var d = 0; d < Layout.Days; d++)
+            if (2 * n >= usableDays)
             {
-                if (j < n && (int)days[j] == d)
+                fullGram.CopyTo(g);
+                var j = 0;
+                for (var d = 0; d < Layout.Days; d++)
                 {
-                    j++;
-                    continue;
-                }
+                    if (j < n && (int)pdays[j] == d)
+                    {
+                        j++;
+                        continue;
+                    }
 
-                if (double.IsNaN(mean[d]))
-                {
-                    continue;
-                }
+                    if (double.IsNaN(pm[d]))
+                    {
+                        continue;
+                    }
 
-                AddOuter(g, byDay.AsSpan(d * k, k), -1.0);
+                    AddOuter(pg, pv + (d * k), k, -1.0);
+                }
             }
-        }
-        else
-        {
-            g.Clear();
-            for (var j = 0; j < n; j++)
+            else
             {
-                AddOuter(g, byDay.AsSpan((int)days[j] * k, k), 1.0);
+                g.Clear();
+                for (var j = 0; j < n; j++)
+                {
+                    AddOuter(pg, pv + ((int)pdays[j] * k), k, 1.0);
+                }
             }
         }
 
@@ -172,19 +179,22 @@ internal sealed class GappyProjector
         }
     }
 
-    private void Residuals(ReadOnlySpan<double> ys, ReadOnlySpan<double> days, ReadOnlySpan<double> c, Span<double> residuals, double yy)
+    private unsafe void Residuals(ReadOnlySpan<double> ys, ReadOnlySpan<double> days, ReadOnlySpan<double> c, Span<double> residuals, double yy)
     {
         var k = K;
         residuals.Clear();
-        for (var j = 0; j < ys.Length; j++)
+        fixed (double* pys = ys, pdays = days, pc = c, pr = residuals, pv = byDay)
         {
-            var r = ys[j];
-            var v = byDay.AsSpan((int)days[j] * k, k);
-            residuals[0] += r * r;
-            for (var a = 0; a < k; a++)
+            for (var j = 0; j < ys.Length; j++)
             {
-                r -= c[a] * v[a];
-                residuals[a + 1] += r * r;
+                var r = pys[j];
+                var v = pv + ((int)pdays[j] * k);
+                pr[0] += r * r;
+                for (var a = 0; a < k; a++)
+                {
+                    r -= pc[a] * v[a];
+                    pr[a + 1] += r * r;
+                }
             }
         }
 
@@ -195,13 +205,12 @@ internal sealed class GappyProjector
         }
     }
 
-    private static void AddOuter(Span<double> g, ReadOnlySpan<double> v, double sign)
+    private static unsafe void AddOuter(double* g, double* v, int k, double sign)
     {
-        var k = v.Length;
         for (var a = 0; a < k; a++)
         {
             var va = sign * v[a];
-            var rowG = g.Slice(a * k, k);
+            var rowG = g + (a * k);
             for (var b = 0; b < k; b++)
             {
                 rowG[b] += va * v[b];

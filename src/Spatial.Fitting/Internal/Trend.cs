@@ -73,7 +73,8 @@ internal static class Trend
             return double.NaN;
         }
 
-        var slopes = new List<double>(n * (n - 1) / 2);
+        var slopes = new double[n * (n - 1) / 2];
+        var m = 0;
         for (var i = 0; i < n; i++)
         {
             for (var j = i + 1; j < n; j++)
@@ -81,19 +82,75 @@ internal static class Trend
                 var dx = x[j] - x[i];
                 if (dx != 0)
                 {
-                    slopes.Add((y[j] - y[i]) / dx);
+                    slopes[m++] = (y[j] - y[i]) / dx;
                 }
             }
         }
 
-        if (slopes.Count == 0)
+        if (m == 0)
         {
             return double.NaN;
         }
 
-        slopes.Sort();
-        var m = slopes.Count;
-        return m % 2 == 1 ? slopes[m / 2] : 0.5 * (slopes[(m / 2) - 1] + slopes[m / 2]);
+        var span = slopes.AsSpan(0, m);
+        var upper = Select(span, m / 2);
+        return m % 2 == 1 ? upper : 0.5 * (Max(span[..(m / 2)]) + upper);
+    }
+
+    /// <summary>The value of rank <paramref name="rank"/> (0-based) of <paramref name="v"/>, which is reordered so that v[..rank] ≤ v[rank] (Hoare's selection).</summary>
+    internal static double Select(Span<double> v, int rank)
+    {
+        int lo = 0, hi = v.Length - 1;
+        while (lo < hi)
+        {
+            var pivot = v[lo + ((hi - lo) / 2)];
+            int i = lo, j = hi;
+            while (i <= j)
+            {
+                while (v[i] < pivot)
+                {
+                    i++;
+                }
+
+                while (v[j] > pivot)
+                {
+                    j--;
+                }
+
+                if (i <= j)
+                {
+                    (v[i], v[j]) = (v[j], v[i]);
+                    i++;
+                    j--;
+                }
+            }
+
+            if (rank <= j)
+            {
+                hi = j;
+            }
+            else if (rank >= i)
+            {
+                lo = i;
+            }
+            else
+            {
+                break;
+            }
+        }
+
+        return v[rank];
+    }
+
+    private static double Max(ReadOnlySpan<double> v)
+    {
+        var m = double.NegativeInfinity;
+        foreach (var x in v)
+        {
+            m = Math.Max(m, x);
+        }
+
+        return m;
     }
 
     /// <summary>Quantile of sorted values by linear interpolation between order statistics (Hyndman &amp; Fan 1996 type 7, numpy's default); NaN when empty.</summary>
