@@ -8,6 +8,8 @@ internal static class VerbList
     public static IEnumerable<Command> Create(CliEnv env)
     {
         _ = env;
+        yield return Verbs.FitVerb.Create(env);
+        yield return Verbs.ApplyVerb.Create(env);
         yield break;
     }
 }

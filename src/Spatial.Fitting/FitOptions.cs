@@ -21,6 +21,7 @@ public sealed record MetricOptions(double ThresholdMm = 25.0, int BridgeDays = 3
 /// <param name="SelectionCount">How many seasons each end of a selection lists.</param>
 /// <param name="LabelMinCorrelation">A component is labelled amount/timing/duration only when |r| with the matching metric is at least this; otherwise "other".</param>
 /// <param name="MaxThreads">Upper bound on threads (null = all cores). Results do not depend on it.</param>
+/// <param name="MinObservedDays">Seasons with fewer observed days are left out of the basis estimation (as are those flagged below the import's minimum); they are still projected and reported.</param>
 public sealed record FitOptions(
     int Components = 4,
     bool Refine = false,
@@ -32,7 +33,8 @@ public sealed record FitOptions(
     double SelectionResidual = 0.5,
     int SelectionCount = 10,
     double LabelMinCorrelation = 0.3,
-    int? MaxThreads = null)
+    int? MaxThreads = null,
+    int MinObservedDays = 0)
 {
     /// <summary>The metric rules in force (never null).</summary>
     public MetricOptions MetricRules => Metrics ?? MetricOptions.Default;

@@ -40,7 +40,7 @@ public static class SeasonalFit
         ArgumentOutOfRangeException.ThrowIfNegative(options.Ridge);
         var k = options.Components;
         var po = Layout.Parallel(options.MaxThreads);
-        var train = Enumerable.Range(0, matrix.Rows).Where(r => !matrix.Keys[r].BelowMinDays && matrix.Keys[r].ObservedDays > 0).ToArray();
+        var train = Enumerable.Range(0, matrix.Rows).Where(r => !matrix.Keys[r].BelowMinDays && matrix.Keys[r].ObservedDays > 0 && matrix.Keys[r].ObservedDays >= options.MinObservedDays).ToArray();
         if (train.Length < 2)
         {
             throw new SpatialDataException("season matrix", 0, $"{train.Length} season(s) have enough observed days to estimate a basis; at least 2 are needed", "lower the minimum observed days or add seasons");
