@@ -10,6 +10,7 @@ internal static class VerbList
         _ = env;
         yield return Verbs.FitVerb.Create(env);
         yield return Verbs.ApplyVerb.Create(env);
+        yield return Verbs.RegressVerb.Create(env);
         yield break;
     }
 }
