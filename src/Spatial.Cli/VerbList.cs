@@ -7,7 +7,6 @@ internal static class VerbList
 {
     public static IEnumerable<Command> Create(CliEnv env)
     {
-        _ = env;
-        yield break;
+        yield return Verbs.ScenarioVerb.Create(env);
     }
 }
