@@ -1,5 +1,4 @@
 using System.Globalization;
-using System.IO.Compression;
 using System.Text;
 using System.Text.Json;
 using NetTopologySuite.Geometries;
@@ -30,7 +29,8 @@ public static class ScenarioFiles
     /// <summary>Per station-season noise-free metrics (CSV).</summary>
     public const string TruthSeasons = "truth_seasons.csv";
 
-    private static readonly UTF8Encoding Utf8 = new(false);
+    // zlib level 3: faster than the default level 6 on these records for a file about 2 % larger (default samples: 7.67 MB vs 7.49 MB).
+    private const int RecordsCompressionLevel = 3;
 
     /// <summary>
     /// Writes every file of <paramref name="scenario"/> into <paramref name="folder"/> (created when needed), each
@@ -111,7 +111,7 @@ public static class ScenarioFiles
             dateBytes[t] = Encoding.ASCII.GetBytes(scenario.Records.FirstDate.AddDays(t).ToString("yyyy-MM-dd", CultureInfo.InvariantCulture));
         }
 
-        using var gz = new GzipWriter(stream, CompressionLevel.Optimal);
+        using var gz = new GzipWriter(stream, RecordsCompressionLevel);
         var buffer = new byte[1 << 16];
         var used = 0;
         void Flush()

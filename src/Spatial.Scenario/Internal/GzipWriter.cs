@@ -4,7 +4,7 @@ namespace Spatial.Scenario.Internal;
 
 /// <summary>
 /// A gzip member (RFC 1952) with a fixed header — no file name, modification time 0, extra flags 0, operating system
-/// 255 "unknown" — around a raw deflate stream (RFC 1951) from System.IO.Compression at a fixed level, so that the
+/// 255 "unknown" — around a raw deflate stream (RFC 1951) from System.IO.Compression at a fixed zlib level, so that the
 /// same bytes in give the same file out on every platform running the same runtime.
 /// </summary>
 internal sealed class GzipWriter : Stream
@@ -16,12 +16,13 @@ internal sealed class GzipWriter : Stream
     private long length;
     private bool finished;
 
-    public GzipWriter(Stream inner, CompressionLevel level)
+    /// <summary>Starts a gzip member on <paramref name="inner"/> with zlib compression level <paramref name="level"/> (0–9).</summary>
+    public GzipWriter(Stream inner, int level)
     {
         this.inner = inner;
         ReadOnlySpan<byte> header = [0x1f, 0x8b, 8, 0, 0, 0, 0, 0, 0, 0xff];
         inner.Write(header);
-        deflate = new DeflateStream(inner, level, leaveOpen: true);
+        deflate = new DeflateStream(inner, new ZLibCompressionOptions { CompressionLevel = level }, leaveOpen: true);
     }
 
     public override bool CanRead => false;
