@@ -241,11 +241,12 @@ public static class LayerExport
     private static void WriteCsv(Layer layer, string path)
     {
         var point = layer.GeometryType == "POINT";
+        var hasLonLat = layer.Fields.Any(f => f.Name == "longitude") && layer.Fields.Any(f => f.Name == "latitude");
         var wkt = new WKTWriter();
         AtomicFile.WriteText(path, w =>
         {
             var header = layer.Fields.Select(f => Internal.Csv.Field(f.Name)).ToList();
-            header.InsertRange(header.Count > 0 && layer.Fields[0].Name == "station" ? 1 : 0, point ? ["point_longitude", "point_latitude"] : ["wkt"]);
+            header.InsertRange(header.Count > 0 && layer.Fields[0].Name == "station" ? 1 : 0, point ? (hasLonLat ? [] : ["longitude", "latitude"]) : ["wkt"]);
             w.WriteLine(string.Join(',', header));
             foreach (var f in layer.Features)
             {
@@ -256,7 +257,8 @@ public static class LayerExport
                     long l => l.ToString(CultureInfo.InvariantCulture),
                     _ => Internal.Csv.Field(Convert.ToString(v, CultureInfo.InvariantCulture) ?? string.Empty),
                 }).ToList();
-                var geo = point
+                var geo = point && hasLonLat ? []
+                    : point
                     ? new[] { Internal.Csv.Number(f.Geometry.Coordinate.X), Internal.Csv.Number(f.Geometry.Coordinate.Y) }
                     : [Internal.Csv.Field(wkt.Write(f.Geometry))];
                 fields.InsertRange(layer.Fields.Count > 0 && layer.Fields[0].Name == "station" ? 1 : 0, geo);

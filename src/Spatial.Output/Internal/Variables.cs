@@ -30,7 +30,7 @@ internal static partial class Variables
 
         if (ComponentName().IsMatch(name))
         {
-            return "mm (component score)";
+            return "mm";
         }
 
         return name switch

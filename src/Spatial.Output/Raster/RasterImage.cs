@@ -12,7 +12,11 @@ public readonly record struct GeoBounds(double West, double South, double East, 
 internal sealed record RgbaImage(int Width, int Height, byte[] Pixels)
 {
     /// <summary>PNG bytes (SkiaSharp's encoder; deterministic for the same pixels).</summary>
-    public byte[] ToPng()
+    public byte[] ToPng() => png ??= Encode();
+
+    private byte[]? png;
+
+    private byte[] Encode()
     {
         using var bitmap = new SKBitmap(new SKImageInfo(Width, Height, SKColorType.Rgba8888, SKAlphaType.Unpremul));
         Marshal.Copy(Pixels, 0, bitmap.GetPixels(), Pixels.Length);
