@@ -8,6 +8,7 @@ internal static class VerbList
     public static IEnumerable<Command> Create(CliEnv env)
     {
         _ = env;
-        yield break;
+        yield return Verbs.ExportVerb.Create(env);
+        yield return Verbs.ReportVerb.Create(env);
     }
 }

@@ -273,8 +273,13 @@ public static class LayerExport
         var latest = DateTime.UnixEpoch;
         if (folder.Manifest?["runs"] is System.Text.Json.Nodes.JsonObject runs)
         {
-            foreach (var (_, run) in runs)
+            foreach (var (verb, run) in runs)
             {
+                if (verb is "export" or "report")
+                {
+                    continue; // the outputs' own runs; counting them would change the file at every export
+                }
+
                 if (Json.Text(run?["time_utc"]) is { } t
                     && DateTime.TryParse(t, CultureInfo.InvariantCulture, DateTimeStyles.AdjustToUniversal | DateTimeStyles.AssumeUniversal, out var d)
                     && d > latest)
