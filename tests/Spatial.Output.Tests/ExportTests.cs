@@ -221,6 +221,36 @@ public sealed class ExportTests
         Directory.Delete(dir, true);
     }
 
+    [Fact]
+    public void Hillshade_image_lights_the_north_west_flank_of_a_cone_and_leaves_the_sea_transparent()
+    {
+        var dir = TestData.NewScratchFolder("hillshade");
+        var bounds = LayerExport.WriteHillshade(Fixtures.ConeDem(), dir);
+        using var bitmap = SkiaSharp.SKBitmap.Decode(Path.Combine(dir, "hillshade.png"));
+        var utm = Spatial.Output.Internal.CrsTransform.For(CrsDefinition.FromEpsg(32629), "test");
+        SkiaSharp.SKColor At(double e, double n)
+        {
+            // Equirectangular: columns linear in longitude, rows linear in latitude (hillshade.json bounds).
+            var (lon, lat) = utm.ToLonLat(e, n);
+            var x = (int)((lon - bounds.West) / (bounds.East - bounds.West) * bitmap.Width);
+            var y = (int)((bounds.North - lat) / (bounds.North - bounds.South) * bitmap.Height);
+            return bitmap.GetPixel(x, y);
+        }
+
+        // Cone centre (545 000, 6 495 000); flanks 5 km to the north-west and south-east; sea 14.5 km east.
+        var northWest = At(541_464, 6_498_536);
+        var southEast = At(548_536, 6_491_464);
+        // The cone falls 900 m in 15 km (gradient 0.06): a flank facing the light (NW) or away from it (SE) gets, by the
+        // standard formula cos Z cos S ± sin Z sin S with Z = 45°, S = atan 0.06 (common practice), 0.7482 and 0.6635 → grey 190.8 and 169.2.
+        var s = Math.Atan(0.06);
+        var lit = Math.Cos(Math.PI / 4) * (Math.Cos(s) + Math.Sin(s)) * 255;
+        var away = Math.Cos(Math.PI / 4) * (Math.Cos(s) - Math.Sin(s)) * 255;
+        Tolerance.Near(lit, northWest.Red, 1.5, "grey of the lit flank (levels)");
+        Tolerance.Near(away, southEast.Red, 1.5, "grey of the shaded flank (levels)");
+        Assert.Equal(0, At(559_500, 6_495_000).Alpha);
+        Directory.Delete(dir, true);
+    }
+
     private static List<Layer> ExportLayers()
     {
         var notes = new List<string>();

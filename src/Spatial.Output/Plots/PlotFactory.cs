@@ -63,7 +63,7 @@ public static class PlotFactory
             mean.Color = Ink;
         }
 
-        plot.Axes.DateTimeTicksBottom();
+        DayMonthTicks(plot);
         plot.Add.HorizontalLine(0, 1, Ink.WithAlpha(0.4));
         plot.ShowLegend(Alignment.UpperRight);
         Labels(plot, $"Components of the seasonal curve (season from {calendar.StartText})", "date in the season", "weight per day");
@@ -112,7 +112,7 @@ public static class PlotFactory
             line.Color = Hex(ColourScale.Fellside.At(0.15 + (0.85 * k / Math.Max(1, steps))).Hex);
         }
 
-        plot.Axes.DateTimeTicksBottom();
+        DayMonthTicks(plot);
         plot.ShowLegend(Alignment.UpperRight);
         Labels(plot, title, "date in the season", "snow depth (mm)");
         return Render(plot, title, "The mean curve, then the curve after adding each component in turn, against the observed daily depths (gaps are missing days).");
@@ -202,6 +202,16 @@ public static class PlotFactory
         }
 
         return (xs.ToArray(), ys.ToArray());
+    }
+
+    /// <summary>Date ticks as "1 Oct" (invariant), since the plotted year is only a stand-in for any season.</summary>
+    private static void DayMonthTicks(Plot plot)
+    {
+        var axis = plot.Axes.DateTimeTicksBottom();
+        if (axis.TickGenerator is ScottPlot.TickGenerators.DateTimeAutomatic automatic)
+        {
+            automatic.LabelFormatter = d => d.ToString("d MMM", System.Globalization.CultureInfo.InvariantCulture);
+        }
     }
 
     private static string Unit(string unit) => unit.Length == 0 ? string.Empty : $" ({unit})";
