@@ -13,6 +13,8 @@ internal static class VerbList
         yield return Verbs.FitVerb.Create(env);
         yield return Verbs.ApplyVerb.Create(env);
         yield return Verbs.RegressVerb.Create(env);
+        yield return Verbs.ExportVerb.Create(env);
+        yield return Verbs.ReportVerb.Create(env);
         yield break;
     }
 }
