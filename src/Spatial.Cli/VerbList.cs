@@ -8,6 +8,7 @@ internal static class VerbList
     public static IEnumerable<Command> Create(CliEnv env)
     {
         _ = env;
+        yield return Verbs.ViewVerb.Create(env);
         yield break;
     }
 }

@@ -241,7 +241,7 @@
     const fact = (k, v) => { html('dt', k, facts); html('dd', v, facts); };
     fact('Station id', info.id);
     fact('Name', info.name || '—');
-    fact('Position', `${fmt(info.latitude, 6)}° N, ${fmt(info.longitude, 6)}° E (WGS 84)`);
+    fact('Position', `${fmt(Math.abs(info.latitude), 6)}° ${info.latitude < 0 ? 'S' : 'N'}, ${fmt(Math.abs(info.longitude), 6)}° ${info.longitude < 0 ? 'W' : 'E'} (WGS 84)`);
     fact('Elevation (listed)', info.elevation_listed_m === null ? '—' : fmt(info.elevation_listed_m, 4) + ' m');
     fact('Elevation (terrain model)', info.elevation_dem_m === null ? '—' : fmt(info.elevation_dem_m, 4) + ' m');
     fact('Distance to the coast', info.coast_km === null ? '—' : fmt(info.coast_km) + ' km');
@@ -274,7 +274,7 @@
       tr.addEventListener('click', pick);
       tr.addEventListener('keydown', (e) => { if (e.key === 'Enter' || e.key === ' ') { e.preventDefault(); pick(); } });
     });
-    // Worst-fitting season first in the chooser? No: seasons in order, the last one chosen.
+    // Seasons in year order; the latest is drawn first.
     for (const r of seasons.rows) { const o = document.createElement('option'); o.value = String(r[0]); o.textContent = String(r[0]); sel.appendChild(o); }
     sel.value = String(seasons.rows[seasons.rows.length - 1][0]);
     const k = $('k');
@@ -324,7 +324,7 @@
     el('path', { d: line(recon), class: 'recon', 'data-series': 'reconstruction' }, svg);
     const key = [['mean', 'mean curve'], ['recon', `reconstruction, ${k} component${k > 1 ? 's' : ''}`]];
     if (c.observed) key.splice(1, 0, ['observed', 'observed']);
-    key.forEach(([cls, text], i) => { const yy = T + 6 + i * 13; el('line', { x1: W - 170, x2: W - 150, y1: yy, y2: yy, class: cls }, svg); el('text', { x: W - 146, y: yy + 3 }, svg).textContent = text; });
+    key.forEach(([cls, text], i) => { const yy = T + 6 + i * 13; el('line', { x1: W - 200, x2: W - 180, y1: yy, y2: yy, class: cls }, svg); el('text', { x: W - 176, y: yy + 3 }, svg).textContent = text; });
     const coeffs = c.coefficients.slice(0, k).map((v, i) => `c${i + 1} (${c.labels[i]}) = ${fmt(v)}`).join(', ');
     $('chart-note').textContent = (c.observed ? '' : 'Observed daily curve not available here: showing the mean and the reconstruction only. ') + coeffs;
   }
@@ -406,7 +406,8 @@
     map.addEventListener('pointerup', endDrag);
     map.addEventListener('pointercancel', endDrag);
     map.addEventListener('pointerleave', () => { $('tooltip').hidden = true; });
-    window.addEventListener('resize', applyView);
+    // The map's box changes with the window and when the station panel opens or closes.
+    new ResizeObserver(() => { if (state.view) applyView(); }).observe(map);
   }
   function closePanel() {
     $('panel').hidden = true;
