@@ -39,6 +39,17 @@ public sealed class BrowserTests(BrowserFixture fixture, ITestOutputHelper outpu
         return false;
     }
 
+    /// <summary>Writes a screenshot into the test output folder (artifacts/), for people to look at.</summary>
+    private async Task Shot(IPage page, string name)
+    {
+        var folder = Path.Combine(AppContext.BaseDirectory, "artifacts");
+        Directory.CreateDirectory(folder);
+        var shot = Path.Combine(folder, name);
+        await page.ScreenshotAsync(new() { Path = shot });
+        output.WriteLine("screenshot: " + shot);
+        Assert.True(new FileInfo(shot).Length > 10_000, "the screenshot is nearly empty");
+    }
+
     private async Task<JsonElement> Api(string url)
     {
         using var http = new HttpClient { BaseAddress = fixture.Server.Uri };
@@ -74,6 +85,7 @@ public sealed class BrowserTests(BrowserFixture fixture, ITestOutputHelper outpu
 
         Assert.Equal(1, await page.Locator("#g-coast path").CountAsync());
         Assert.Equal(1, await page.Locator("#g-hill image").CountAsync());
+        await Shot(page, "viewer-map.png");
         Assert.Empty(errors);
         await page.CloseAsync();
     }
@@ -136,6 +148,18 @@ public sealed class BrowserTests(BrowserFixture fixture, ITestOutputHelper outpu
         Assert.NotEqual(zoomed, await page.GetAttributeAsync("#map", "viewBox"));
         await page.Keyboard.PressAsync("0");
         Assert.Equal(before, await page.GetAttributeAsync("#map", "viewBox"));
+
+        // Wheel zooms about the pointer; a drag pans and opens no station.
+        var box = (await page.Locator("#map").BoundingBoxAsync())!;
+        await page.Mouse.MoveAsync(box.X + 30, box.Y + 30);
+        await page.Mouse.WheelAsync(0, -400);
+        await Assertions.Expect(page.Locator("#map")).Not.ToHaveAttributeAsync("viewBox", before!);
+        var wheeled = await page.GetAttributeAsync("#map", "viewBox");
+        await page.Mouse.DownAsync();
+        await page.Mouse.MoveAsync(box.X + 130, box.Y + 90, new() { Steps = 5 });
+        await page.Mouse.UpAsync();
+        Assert.NotEqual(wheeled, await page.GetAttributeAsync("#map", "viewBox"));
+        Assert.True(await page.Locator("#panel").IsHiddenAsync());
         Assert.Empty(errors);
         await page.CloseAsync();
     }
@@ -168,12 +192,7 @@ public sealed class BrowserTests(BrowserFixture fixture, ITestOutputHelper outpu
         await page.DispatchEventAsync("#k", "input");
         Assert.Contains("Mann-Kendall", await page.InnerTextAsync("#panel-trends"), StringComparison.Ordinal);
 
-        var folder = Path.Combine(AppContext.BaseDirectory, "artifacts");
-        Directory.CreateDirectory(folder);
-        var shot = Path.Combine(folder, "viewer-station-panel.png");
-        await page.ScreenshotAsync(new() { Path = shot });
-        output.WriteLine("screenshot: " + shot);
-        Assert.True(new FileInfo(shot).Length > 10_000);
+        await Shot(page, "viewer-station-panel.png");
         Assert.Empty(errors);
         await page.CloseAsync();
     }
