@@ -15,6 +15,7 @@ internal static class VerbList
         yield return Verbs.RegressVerb.Create(env);
         yield return Verbs.ExportVerb.Create(env);
         yield return Verbs.ReportVerb.Create(env);
+        yield return Verbs.ViewVerb.Create(env);
         yield break;
     }
 }
