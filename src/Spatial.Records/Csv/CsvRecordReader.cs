@@ -107,7 +107,7 @@ internal sealed class CsvRecordReader : IDisposable
         var bytes = Field(index);
         if (!System.Text.Unicode.Utf8.IsValid(bytes))
         {
-            throw Error("the text is not valid UTF-8", "save the file as UTF-8", index);
+            throw Error("the text is not valid UTF-8", "give a CSV text file saved as UTF-8", index);
         }
 
         return Encoding.UTF8.GetString(bytes).Trim();
