@@ -82,6 +82,7 @@ internal sealed class CsvRecordReader : IDisposable
         }
 
         Stream s = file;
+        var gzip = false;
         if (file.CanSeek)
         {
             Span<byte> magic = stackalloc byte[2];
@@ -90,10 +91,11 @@ internal sealed class CsvRecordReader : IDisposable
             if (n == 2 && magic[0] == 0x1f && magic[1] == 0x8b)
             {
                 s = new GZipStream(file, CompressionMode.Decompress);
+                gzip = true;
             }
         }
 
-        return new CsvRecordReader(new GuardedStream(s, name), name, file);
+        return new CsvRecordReader(new GuardedStream(s, name, gzip ? path : null), name, file);
     }
 
     /// <summary>The bytes of field <paramref name="index"/> of the current record (unescaped, not trimmed).</summary>
@@ -105,7 +107,7 @@ internal sealed class CsvRecordReader : IDisposable
         var bytes = Field(index);
         if (!System.Text.Unicode.Utf8.IsValid(bytes))
         {
-            throw Error("the text is not valid UTF-8", "save the file as UTF-8", index);
+            throw Error("the text is not valid UTF-8", "give a CSV text file saved as UTF-8", index);
         }
 
         return Encoding.UTF8.GetString(bytes).Trim();
@@ -175,9 +177,17 @@ internal sealed class CsvRecordReader : IDisposable
         return true;
     }
 
-    /// <summary>Turns read failures of the underlying (gzip) stream into located data errors.</summary>
-    private sealed class GuardedStream(Stream inner, string name) : Stream
+    /// <summary>
+    /// Turns read failures of the underlying (gzip) stream into data errors, and checks at the end of a gzip file
+    /// that the decompressed length matches the length the file states in its last four bytes (RFC 1952 ISIZE,
+    /// modulo 2^32): .NET's decompressor ends silently on a truncated file.
+    /// </summary>
+    /// <remarks>A file of several concatenated gzip members states only the last member's length; such files are refused too.</remarks>
+    private sealed class GuardedStream(Stream inner, string name, string? gzipPath) : Stream
     {
+        private long produced;
+        private bool checkedEnd;
+
         public override bool CanRead => true;
 
         public override bool CanSeek => false;
@@ -198,7 +208,15 @@ internal sealed class CsvRecordReader : IDisposable
         {
             try
             {
-                return inner.Read(buffer);
+                var n = inner.Read(buffer);
+                produced += n;
+                if (n == 0 && buffer.Length > 0 && gzipPath is not null && !checkedEnd)
+                {
+                    checkedEnd = true;
+                    CheckGzipLength();
+                }
+
+                return n;
             }
             catch (InvalidDataException e)
             {
@@ -212,6 +230,24 @@ internal sealed class CsvRecordReader : IDisposable
 
         public override void Flush()
         {
+        }
+
+        private void CheckGzipLength()
+        {
+            using var f = new FileStream(gzipPath!, FileMode.Open, FileAccess.Read, FileShare.Read);
+            Span<byte> tail = stackalloc byte[4];
+            var ok = f.Length >= 18;
+            if (ok)
+            {
+                f.Position = f.Length - 4;
+                ok = f.ReadAtLeast(tail, 4, throwOnEndOfStream: false) == 4
+                    && System.Buffers.Binary.BinaryPrimitives.ReadUInt32LittleEndian(tail) == unchecked((uint)produced);
+            }
+
+            if (!ok)
+            {
+                throw new SpatialDataException(name, 0, "the gzip file is incomplete: it ends before its data do (a truncated download or copy?)", "download or compress the file again");
+            }
         }
 
         public override long Seek(long offset, SeekOrigin origin) => throw new NotSupportedException();

@@ -41,6 +41,7 @@ internal sealed class ImportRun
     private long emptyDepth;
     private long otherElement;
     private long firstUnparseableLine;
+    private long firstOtherElementLine;
     private string firstUnparseableText = string.Empty;
 
     public ImportRun(ImportOptions options, StationList stations, CsvRecordReader csv)
@@ -101,6 +102,7 @@ internal sealed class ImportRun
 
             if (elementCol >= 0 && !IsElement(csv.Field(elementCol)))
             {
+                firstOtherElementLine = firstOtherElementLine == 0 ? csv.Line : firstOtherElementLine;
                 otherElement++;
                 continue;
             }
@@ -532,7 +534,7 @@ internal sealed class ImportRun
         {
             throw new SpatialDataException(
                 csv.FileName,
-                0,
+                firstOtherElementLine,
                 $"no row has the snow-depth element '{options.Element ?? string.Join("' or '", ImportOptions.DefaultElementNames)}' (found: {string.Join(", ", elementsSeen.Order(StringComparer.Ordinal))})",
                 "say which element value means snow depth with --element");
         }
