@@ -164,11 +164,7 @@ public static class LeastSquares
         else
         {
             f = (essDd.ToDouble() / dfModel) / sigma2;
-            fp = FisherSnedecor.CDF(dfModel, df, f) is var c && c < 1 ? 1 - c : 0;
-            if (f > 0 && fp < 1e-12)
-            {
-                fp = 1 - FisherSnedecor.CDF(dfModel, df, f);
-            }
+            fp = f > 0 ? Math.Max(0, 1 - FisherSnedecor.CDF(dfModel, df, f)) : 1;
         }
 
         var sumLogW = 0.0;
