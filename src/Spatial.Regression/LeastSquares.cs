@@ -18,7 +18,16 @@ public static class LeastSquares
     /// </summary>
     /// <exception cref="SpatialDataException">The design is rank deficient (the message names the collinear predictors),
     /// or there are no more rows than coefficients. <paramref name="source"/> names the data in the message.</exception>
-    public static LeastSquaresFit Fit(IReadOnlyList<string> names, IReadOnlyList<double[]> predictors, double[] y, bool intercept, double[]? weights, string source)
+    public static LeastSquaresFit Fit(IReadOnlyList<string> names, IReadOnlyList<double[]> predictors, double[] y, bool intercept, double[]? weights, string source) =>
+        Fit(names, predictors, y, intercept, weights, source, forceDoubleDouble: false);
+
+    /// <summary>
+    /// Designs whose column-scaled condition number (from a double-precision QR) is at most this are solved in
+    /// double precision with corrected semi-normal refinement; worse ones are refactorised in double-double.
+    /// </summary>
+    internal const double DoublePathConditionLimit = 1e3;
+
+    internal static LeastSquaresFit Fit(IReadOnlyList<string> names, IReadOnlyList<double[]> predictors, double[] y, bool intercept, double[]? weights, string source, bool forceDoubleDouble)
     {
         ArgumentNullException.ThrowIfNull(names);
         ArgumentNullException.ThrowIfNull(predictors);
@@ -85,10 +94,17 @@ public static class LeastSquares
         var xw = sw is null ? cols.ToArray() : cols.Select(c => Mul(c, sw)).ToArray();
         var yw = sw is null ? y : Mul(y, sw);
 
-        var qr = new DdQr(xw);
+        ILeastSquaresFactor qr = new DoubleQr(xw);
         CheckRank(qr, colNames, source);
+        var conditionNumber = ConditionNumber(qr);
+        if (forceDoubleDouble || !(conditionNumber <= DoublePathConditionLimit))
+        {
+            qr = new DdQr(xw);
+            CheckRank(qr, colNames, source);
+            conditionNumber = ConditionNumber(qr);
+        }
 
-        var bdd = qr.Solve(yw);
+        var bdd = qr.Solve(yw, 2);
         var resDd = qr.Residuals(yw, bdd);
         var rssDd = DoubleDouble.Zero;
         foreach (var r in resDd)
@@ -148,11 +164,7 @@ public static class LeastSquares
         else
         {
             f = (essDd.ToDouble() / dfModel) / sigma2;
-            fp = FisherSnedecor.CDF(dfModel, df, f) is var c && c < 1 ? 1 - c : 0;
-            if (f > 0 && fp < 1e-12)
-            {
-                fp = 1 - FisherSnedecor.CDF(dfModel, df, f);
-            }
+            fp = f > 0 ? Math.Max(0, 1 - FisherSnedecor.CDF(dfModel, df, f)) : 1;
         }
 
         var sumLogW = 0.0;
@@ -192,8 +204,6 @@ public static class LeastSquares
 
         var hc3 = Hc3Variances(u, rinv, resw, leverage, n, p);
         var bp = BreuschPagan(u, resw, xw, intercept, n, p);
-        var conditionNumber = ConditionNumber(qr);
-
         var tCrit = StudentT.InvCDF(0, 1, df, 0.975);
         var coefs = new List<Coefficient>(p);
         for (var j = 0; j < p; j++)
@@ -213,18 +223,13 @@ public static class LeastSquares
             coefs.Add(new Coefficient(colNames[j], b, se, t, pv, b - (tCrit * se), b + (tCrit * se), Math.Sqrt(hc3[j]), standardised, vif));
         }
 
+        // Raw residuals from the double-double residuals of the (weighted) problem.
         var fitted = new double[n];
         var raw = new double[n];
         for (var i = 0; i < n; i++)
         {
-            var s = DoubleDouble.Zero;
-            for (var j = 0; j < p; j++)
-            {
-                s += bdd[j] * cols[j][i];
-            }
-
-            fitted[i] = s.ToDouble();
-            raw[i] = ((DoubleDouble)y[i] - s).ToDouble();
+            raw[i] = sw is null ? resw[i] : (resDd[i] / sw[i]).ToDouble();
+            fitted[i] = y[i] - raw[i];
         }
 
         var gFlat = new double[p * p];
@@ -250,7 +255,7 @@ public static class LeastSquares
         return r;
     }
 
-    private static void CheckRank(DdQr qr, List<string> colNames, string source)
+    private static void CheckRank(ILeastSquaresFactor qr, List<string> colNames, string source)
     {
         for (var j = 0; j < qr.P; j++)
         {
@@ -411,7 +416,7 @@ public static class LeastSquares
         return new BreuschPaganTest(stat, dfAux, pv);
     }
 
-    private static double ConditionNumber(DdQr qr)
+    private static double ConditionNumber(ILeastSquaresFactor qr)
     {
         var p = qr.P;
         var m = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.Dense(p, p);
@@ -419,7 +424,7 @@ public static class LeastSquares
         {
             for (var i = 0; i <= j; i++)
             {
-                m[i, j] = qr.R(i, j).ToDouble() / qr.ColumnNormScaled[j];
+                m[i, j] = qr.R(i, j) / qr.ColumnNormScaled[j];
             }
         }
 

@@ -137,7 +137,11 @@ public static class RegressionRun
                 throw new SpatialDataException(table.Source, lines[badRow], FormattableString.Invariant($"coordinates ({lon[badRow]}, {lat[badRow]}) are not longitude/latitude in degrees"), "give WGS 84 longitude and latitude in degrees");
             }
 
-            if (fit.N >= 4)
+            if (fit.N < 4)
+            {
+                notes.Add("fewer than 4 rows: Moran's I skipped");
+            }
+            else
             {
                 var k = Math.Min(options.MoranK, fit.N - 1);
                 var weights = options.MoranNeighbours == MoranNeighbours.KNearest
@@ -161,9 +165,9 @@ public static class RegressionRun
                 local = Gwr.Fit(spec.Predictors, xs, y, spec.Intercept, lon, lat, gwr);
             }
         }
-        else if (options.BlockKm is not null || options.Local is not null)
+        else
         {
-            notes.Add("no coordinate columns (longitude, latitude): spatial diagnostics skipped");
+            notes.Add("no coordinate columns (longitude, latitude): Moran's I" + (options.BlockKm is not null || options.Local is not null ? ", block cross-validation and local regression" : string.Empty) + " skipped");
         }
 
         return new ModelReport(spec, table.Source, table.RowCount, dropped, ids, y, fit, influential, moran, block, local, notes);

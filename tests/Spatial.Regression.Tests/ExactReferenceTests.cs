@@ -11,10 +11,11 @@ namespace Spatial.Regression.Tests;
 public sealed class ExactReferenceTests
 {
     [Theory]
-    [InlineData("filip_like", 10.0)]
-    [InlineData("wampler_like", 12.0)]
-    [InlineData("noint_like", 14.0)]
-    public void Given_an_ill_conditioned_polynomial_with_exact_reference_When_fitted_Then_the_digits_hold(string name, double digits)
+    [InlineData("filip_like", 10.0, false)]
+    [InlineData("wampler_like", 12.0, false)]
+    [InlineData("noint_like", 14.0, false)]
+    [InlineData("noint_like", 14.0, true)]
+    public void Given_an_ill_conditioned_polynomial_with_exact_reference_When_fitted_Then_the_digits_hold(string name, double digits, bool forceDoubleDouble)
     {
         var table = Table.ReadCsv(TestData.Path("exact", name + ".csv"));
         var x = Enumerable.Range(0, table.RowCount).Select(i => double.Parse(table.Cell(i, "x"), CultureInfo.InvariantCulture)).ToArray();
@@ -38,7 +39,7 @@ public sealed class ExactReferenceTests
             }
         }
 
-        var fit = LeastSquares.Fit(Enumerable.Range(1, degree).Select(d => $"x{d}").ToArray(), cols, y, intercept, null, name);
+        var fit = LeastSquares.Fit(Enumerable.Range(1, degree).Select(d => $"x{d}").ToArray(), cols, y, intercept, null, name, forceDoubleDouble);
 
         // exact rational least squares (make_exact.py, data/exact/SOURCES.md)
         var parameters = lines.Where(l => l[0].StartsWith('B')).ToList();

@@ -12,7 +12,7 @@ namespace Spatial.Regression.Internal;
 /// Loan, Algorithm 5.2.1. Iterative refinement of the least-squares solution with extended-precision
 /// residuals: Björck (1996), §2.9. Computed once on construction; the object is immutable afterwards.
 /// </remarks>
-internal sealed class DdQr
+internal sealed class DdQr : ILeastSquaresFactor
 {
     /// <summary>Relative size of a diagonal of R (scaled columns) below which the design is called rank deficient.</summary>
     public const double RankTolerance = 1e-12;
@@ -85,7 +85,10 @@ internal sealed class DdQr
     public double RelativeDiagonal(int j) => ColumnNormScaled[j] == 0 ? 0 : Math.Abs(rDiag[j].ToDouble()) / ColumnNormScaled[j];
 
     /// <summary>Element (i, j) of R for the scaled design, i ≤ j.</summary>
-    public DoubleDouble R(int i, int j) => i == j ? rDiag[j] : a[j][i];
+    public DoubleDouble RExact(int i, int j) => i == j ? rDiag[j] : a[j][i];
+
+    /// <inheritdoc/>
+    public double R(int i, int j) => RExact(i, j).ToDouble();
 
     private void Factor()
     {
@@ -213,8 +216,13 @@ internal sealed class DdQr
     }
 
     /// <summary>Residuals y − X b computed in double-double from the original data.</summary>
-    public DoubleDouble[] Residuals(double[] y, DoubleDouble[] b)
+    public DoubleDouble[] Residuals(double[] y, DoubleDouble[] b) => ResidualsOf(x, y, b);
+
+    /// <summary>Residuals y − X b in double-double for columns <paramref name="x"/>.</summary>
+    internal static DoubleDouble[] ResidualsOf(double[][] x, double[] y, DoubleDouble[] b)
     {
+        var N = y.Length;
+        var P = x.Length;
         var r = new DoubleDouble[N];
         for (var i = 0; i < N; i++)
         {
@@ -320,42 +328,5 @@ internal sealed class DdQr
         }
 
         return result;
-    }
-
-    /// <summary>
-    /// Rows of the thin Q factor of the (unscaled) design, as U = X R⁻¹ row by row in double (used for
-    /// leverages and the robust covariance, which need no certified accuracy). Row-major n × p.
-    /// </summary>
-    public double[] ThinQRows()
-    {
-        var rd = new double[P, P];
-        for (var j = 0; j < P; j++)
-        {
-            for (var i = 0; i <= j; i++)
-            {
-                rd[i, j] = R(i, j).ToDouble() * Scale[j];
-            }
-        }
-
-        var u = new double[N * P];
-        var row = new double[P];
-        for (var i = 0; i < N; i++)
-        {
-            // Solve uᵀ R = xᵀ (forward substitution on Rᵀ).
-            for (var j = 0; j < P; j++)
-            {
-                var s = x[j][i];
-                for (var k = 0; k < j; k++)
-                {
-                    s -= row[k] * rd[k, j];
-                }
-
-                row[j] = s / rd[j, j];
-            }
-
-            Array.Copy(row, 0, u, i * P, P);
-        }
-
-        return u;
     }
 }

@@ -7,6 +7,10 @@ internal sealed class GwrEngine
     private readonly double[] colScale;
     private readonly double[] y;
     private readonly SpherePoints points;
+    private readonly float[]? distanceCache; // n × n great-circle km, when n ≤ CacheLimit
+
+    /// <summary>Up to this many stations the all-pairs distances are computed once and kept (as float km, n² × 4 bytes: 100 MB at 5,000).</summary>
+    internal const int CacheLimit = 6000;
     private readonly Spatial.Regression.GwrKernel kernel;
     private readonly bool adaptive;
 
@@ -28,6 +32,22 @@ internal sealed class GwrEngine
         this.kernel = kernel;
         this.adaptive = adaptive;
         points = new SpherePoints(lonDeg, latDeg);
+        if (N <= CacheLimit)
+        {
+            var cache = new float[(long)N * N];
+            Parallel.For(0, N, () => new double[N], (i, _, d) =>
+            {
+                Distances(i, d);
+                var row = cache.AsSpan(i * N, N);
+                for (var j = 0; j < N; j++)
+                {
+                    row[j] = (float)d[j];
+                }
+
+                return d;
+            }, _ => { });
+            distanceCache = cache;
+        }
         colScale = new double[P];
         x = new double[N * P];
         var cols = new List<double[]>();
@@ -62,7 +82,7 @@ internal sealed class GwrEngine
         var upper = new double[N];
         Parallel.For(0, N, () => new double[N], (i, _, d) =>
         {
-            points.DistancesFrom(i, d);
+            Distances(i, d);
             upper[i] = d.AsSpan().ToArray().Max();
             d[i] = double.PositiveInfinity;
             lower[i] = KthSmallest(d, P);
@@ -94,7 +114,7 @@ internal sealed class GwrEngine
         {
             var d = buf.D;
             var w = buf.W;
-            points.DistancesFrom(i, d);
+            Distances(i, d);
             double bi;
             if (adaptive)
             {
@@ -275,6 +295,21 @@ internal sealed class GwrEngine
         }
 
         return new Evaluation(false, -1, aicc, trS, trStS, rss, Math.Sqrt(sigma2), fitted, coefs, ses, localR2);
+    }
+
+    private void Distances(int i, double[] into)
+    {
+        if (distanceCache is null)
+        {
+            points.DistancesFrom(i, into);
+            return;
+        }
+
+        var row = distanceCache.AsSpan(i * N, N);
+        for (var j = 0; j < N; j++)
+        {
+            into[j] = row[j];
+        }
     }
 
     private double Kernel(double d, double b)
