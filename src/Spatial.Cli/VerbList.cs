@@ -8,6 +8,7 @@ internal static class VerbList
     public static IEnumerable<Command> Create(CliEnv env)
     {
         _ = env;
+        yield return Verbs.DemoVerb.Create(env);
         yield return Verbs.ScenarioVerb.Create(env);
         yield return Verbs.ImportVerb.Create(env);
         yield return Verbs.FitVerb.Create(env);
