@@ -255,6 +255,21 @@ public sealed class ScenarioOutputTests(ScenarioFixture fx)
     }
 
     [Fact]
+    public void The_records_file_passes_the_gzip_integrity_test()
+    {
+        var gzip = ExternalTool.Locate("gzip", out var why);
+        if (gzip is null)
+        {
+            Console.WriteLine(why);
+            return;
+        }
+
+        // GNU gzip as a real client: -t checks the header, the deflate stream, the CRC-32 and the length.
+        var (code, _, stderr) = ExternalTool.Run(gzip, "-t", fx.File(ScenarioFiles.Records));
+        Assert.True(code == 0, stderr);
+    }
+
+    [Fact]
     public void Every_reported_value_is_the_truth_or_one_of_the_documented_faults()
     {
         var o = fx.Scenario.Options;
