@@ -62,7 +62,7 @@ public static class MarrowfellScenario
             baseValues[i] = SeasonMetricsCalc.Compute(truth, weather);
             if (effects is not null)
             {
-                effects[i] = StationEffects.Compute(weather, place, stationSeed, baseValues[i]);
+                effects[i] = StationEffects.Compute(weather, place, stationSeed);
             }
 
             (observed[i], faults[i]) = FaultInjector.Apply(truth, weather, plan, i, options.FirstSeason, new Rng(Rng.Derive(seed, FaultStream, (ulong)i)));
@@ -73,7 +73,7 @@ public static class MarrowfellScenario
             }
         });
 
-        // Listed elevations and names, in station order from their own streams.
+        // Listed elevations and names, in station order from one stream of their own.
         var nameRng = new Rng(Rng.Derive(seed, NameStream));
         var usedNames = new HashSet<string>(StringComparer.Ordinal);
         var width = Math.Max(3, n.ToString(System.Globalization.CultureInfo.InvariantCulture).Length);
@@ -260,9 +260,8 @@ public static class MarrowfellScenario
 /// <summary>One station's central finite differences of its season-mean metrics (NaN where undefined), per unit named.</summary>
 internal sealed record StationEffects(double[] PerKmElevation, double[] Per10KmCoast, double[] PerDegreeLatitude, double[] PerDecadeWarming)
 {
-    public static StationEffects Compute(RegionalWeather weather, PlaceInputs place, ulong seed, SeasonValues[] baseValues)
+    public static StationEffects Compute(RegionalWeather weather, PlaceInputs place, ulong seed)
     {
-        _ = baseValues;
         double[] Diff(PlaceInputs lo, PlaceInputs hi, double offsetLo, double offsetHi, double stepUnits)
         {
             var a = SeasonMetricsCalc.Compute(SnowSimulator.Simulate(weather, lo, seed, offsetLo), weather);

@@ -2,7 +2,7 @@ namespace Spatial.Scenario;
 
 /// <summary>Options of <see cref="MarrowfellScenario.Generate"/>.</summary>
 /// <param name="Seed">Seed of the stations' placement, the weather and the observation faults (the island itself is fixed).</param>
-/// <param name="Stations">Number of stations (1…20,000; default 150).</param>
+/// <param name="Stations">Number of stations (1…10,000; default 150).</param>
 /// <param name="Seasons">Number of seasons (2…150; default 45), ending with <paramref name="LastSeason"/>.</param>
 /// <param name="LastSeason">The last season, named by the calendar year in which it starts (default 2024: 2024/25).</param>
 /// <param name="MaxThreads">Upper bound on threads (null = all cores). The output does not depend on it.</param>
@@ -13,7 +13,7 @@ public sealed record ScenarioOptions(int Seed = 1, int Stations = 150, int Seaso
     public static ScenarioOptions Default { get; } = new();
 
     /// <summary>Largest station count accepted.</summary>
-    public const int MaxStations = 20_000;
+    public const int MaxStations = 10_000;
 
     /// <summary>Largest season count accepted.</summary>
     public const int MaxSeasons = 150;

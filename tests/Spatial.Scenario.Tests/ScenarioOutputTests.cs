@@ -255,6 +255,21 @@ public sealed class ScenarioOutputTests(ScenarioFixture fx)
     }
 
     [Fact]
+    public void The_records_file_passes_the_gzip_integrity_test()
+    {
+        var gzip = ExternalTool.Locate("gzip", out var why);
+        if (gzip is null)
+        {
+            Console.WriteLine(why);
+            return;
+        }
+
+        // GNU gzip as a real client: -t checks the header, the deflate stream, the CRC-32 and the length.
+        var (code, _, stderr) = ExternalTool.Run(gzip, "-t", fx.File(ScenarioFiles.Records));
+        Assert.True(code == 0, stderr);
+    }
+
+    [Fact]
     public void Every_reported_value_is_the_truth_or_one_of_the_documented_faults()
     {
         var o = fx.Scenario.Options;
@@ -390,6 +405,39 @@ public sealed class ScenarioOutputTests(ScenarioFixture fx)
         Assert.Equal(1 + (150 * 45), lines.Length);
         var first = lines.Skip(1).Where(l => l.StartsWith("MF001,", StringComparison.Ordinal)).Select(l => double.Parse(l.Split(',')[4], CultureInfo.InvariantCulture)).Average();
         Assert.Equal(fx.Scenario.Truth.Stations[0].Mean.DurationDays, first, 9);
+    }
+
+    [Fact]
+    public void The_ols_effects_in_truth_json_are_the_regression_of_its_own_station_means()
+    {
+        // The documented definition, applied to the file's own numbers: least squares of each station mean on
+        // [1, elevation_true_m/1000, coast_km/10, latitude] (onset/meltout: stations with cover in at least half the seasons).
+        using var doc = JsonDocument.Parse(File.ReadAllText(fx.File(ScenarioFiles.Truth)));
+        var stations = doc.RootElement.GetProperty("station_truth").EnumerateArray().ToArray();
+        foreach (var model in doc.RootElement.GetProperty("effects").GetProperty("ols").EnumerateArray())
+        {
+            var response = model.GetProperty("response").GetString()!;
+            var timing = response is "onset_day" or "meltout_day";
+            var rows = stations.Where(s => s.GetProperty("mean").GetProperty(response).ValueKind == JsonValueKind.Number
+                && (!timing || s.GetProperty("cover_season_fraction").GetDouble() >= 0.5)).ToArray();
+            Assert.Equal(model.GetProperty("stations").GetInt32(), rows.Length);
+            var x = new double[rows.Length, 4];
+            var y = new double[rows.Length];
+            for (var i = 0; i < rows.Length; i++)
+            {
+                x[i, 0] = 1;
+                x[i, 1] = rows[i].GetProperty("elevation_true_m").GetDouble() / 1000;
+                x[i, 2] = rows[i].GetProperty("coast_km").GetDouble() / 10;
+                x[i, 3] = rows[i].GetProperty("latitude").GetDouble();
+                y[i] = rows[i].GetProperty("mean").GetProperty(response).GetDouble();
+            }
+
+            var (b, _) = LeastSquares.Fit(x, y);
+
+            // The file rounds its inputs (metres to 0.1, km to 0.001, means to 1e-4): 0.1 % covers the effect of that rounding.
+            Tolerance.Relative(model.GetProperty("elevation_km").GetDouble(), b[1], 1e-3, $"{response} per km elevation");
+            Tolerance.Relative(model.GetProperty("coast_10km").GetDouble(), b[2], 1e-3, $"{response} per 10 km coast");
+        }
     }
 
     private static double Correlation(double[] a, double[] b)

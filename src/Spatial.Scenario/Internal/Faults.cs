@@ -90,18 +90,16 @@ internal sealed record FaultPlan(bool[] SummersUnreported, bool[] Sparse, bool[]
         }
 
         var gross = Pick(rng, stations, FaultRates.Count(FaultRates.GrossElevationStations, stations, 3));
+        // Centimetre seasons go to stations that are not sparse (a sparse station-season could hide them).
         var cm = new HashSet<(int, int)>();
-        var nCm = FaultRates.Count(FaultRates.CentimetreSeasons, stations * seasons, 2);
+        var eligible = sparse.Count(x => !x);
+        var nCm = Math.Min(eligible * seasons, FaultRates.Count(FaultRates.CentimetreSeasons, stations * seasons, 2));
         while (cm.Count < nCm)
         {
             var s = rng.NextInt(stations);
             if (!sparse[s])
             {
                 cm.Add((s, rng.NextInt(seasons)));
-            }
-            else if (sparse.All(x => x))
-            {
-                break;
             }
         }
 
