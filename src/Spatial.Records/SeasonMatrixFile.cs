@@ -169,6 +169,7 @@ public static class SeasonMatrixFile
         var keys = new SeasonKey[rows];
         var depths = new float[(long)rows * SeasonCalendar.DaysPerSeason];
         var offset = 0;
+        StationId? previous = null;
         for (var g = 0; g < reader.RowGroupCount; g++)
         {
             using var group = reader.OpenRowGroupReader(g);
@@ -183,12 +184,18 @@ public static class SeasonMatrixFile
             await ReadNonNull(group, belowField, below, path).ConfigureAwait(false);
             for (var r = 0; r < n; r++)
             {
-                if (!StationId.IsValid(stations[r], out var why))
+                // Consecutive rows of one station share one id instance.
+                if (previous is not { } p || !string.Equals(p.Value, stations[r], StringComparison.Ordinal))
                 {
-                    throw new SpatialDataException(path, 0, $"row {offset + r + 1}: station '{stations[r]}' is not a valid id: {why}", "write it again with 'spatial import'");
+                    if (!StationId.IsValid(stations[r], out var why))
+                    {
+                        throw new SpatialDataException(path, 0, $"row {offset + r + 1}: station '{stations[r]}' is not a valid id: {why}", "write it again with 'spatial import'");
+                    }
+
+                    previous = new StationId(stations[r]!);
                 }
 
-                keys[offset + r] = new SeasonKey(new StationId(stations[r]!), seasons[r], observed[r], below[r]);
+                keys[offset + r] = new SeasonKey(previous.Value, seasons[r], observed[r], below[r]);
             }
 
             var column = new float[n];

@@ -170,3 +170,26 @@ public sealed class SeasonMatrixFileTests : IDisposable
         Assert.Contains("'station'", e.Message, StringComparison.Ordinal);
     }
 }
+
+public sealed class SeasonMatrixFileInteropTests
+{
+    [Fact]
+    public void A_matrix_written_by_the_apache_parquet_cpp_writer_with_nullable_days_reads_correctly()
+    {
+        // Fixture written by Apache Parquet C++ (ParquetSharp 25.0.1.2); see data/SOURCES.md for its recipe.
+        var m = SeasonMatrixFile.Read(TestData.Path("matrix_written_by_parquet_cpp.parquet"));
+
+        Assert.Equal("03-01", m.Calendar.StartText);
+        Assert.Equal(
+            [new SeasonKey(new StationId("MF001"), 1990, 312, false), new SeasonKey(new StationId("MF001"), 1991, 313, false), new SeasonKey(new StationId("MF017"), 1990, 313, false)],
+            m.Keys);
+        for (var r = 0; r < 3; r++)
+        {
+            for (var d = 0; d < 365; d++)
+            {
+                var expected = d % 7 == r ? float.NaN : ((r * 1000) + d) * 0.5f;
+                Assert.Equal(expected, m.Row(r)[d]);
+            }
+        }
+    }
+}

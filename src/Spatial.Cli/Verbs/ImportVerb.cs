@@ -109,7 +109,7 @@ internal static class ImportVerb
                     ["counts"] = counts,
                     ["warnings"] = new JsonArray([.. q.Warnings.Select(w => (JsonNode?)JsonValue.Create(w.ToString()))]),
                 };
-                env.Out.WriteLine(summary.ToJsonString(CliOutput.JsonOptions));
+                env.Out.WriteLine(summary.ToJsonString(new System.Text.Json.JsonSerializerOptions(CliOutput.JsonOptions) { Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping }));
             }
             else
             {

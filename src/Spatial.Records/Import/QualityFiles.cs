@@ -11,10 +11,13 @@ internal static class QualityFiles
 {
     public const int FormatVersion = 1;
 
+    // Station ids and names are written as they are (not \u-escaped); the files are UTF-8 and never embedded in HTML.
+    private static readonly JsonWriterOptions WriterOptions = new() { Indented = true, Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
+
     public static void WriteJson(string path, QualityReport q) =>
         AtomicFile.Write(path, stream =>
         {
-            using var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true });
+            using var w = new Utf8JsonWriter(stream, WriterOptions);
             Write(w, q);
             w.Flush();
             stream.WriteByte((byte)'\n');
@@ -23,7 +26,7 @@ internal static class QualityFiles
     public static string Json(QualityReport q)
     {
         using var ms = new MemoryStream();
-        using (var w = new Utf8JsonWriter(ms, new JsonWriterOptions { Indented = true }))
+        using (var w = new Utf8JsonWriter(ms, WriterOptions))
         {
             Write(w, q);
         }
