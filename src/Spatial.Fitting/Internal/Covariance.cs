@@ -48,6 +48,20 @@ internal static class Covariance
             for (var t = chunks[c].Start; t < chunks[c].End; t++)
             {
                 var row = span.Slice(train[t] * d, d);
+                if (fill is null)
+                {
+                    // Branch-free: a missing day adds 0 to the sum and 0 to the count.
+                    for (var j = 0; j < d; j++)
+                    {
+                        var x = row[j];
+                        var observed = !float.IsNaN(x);
+                        s[j] += observed ? x : 0f;
+                        n[j] += observed ? 1 : 0;
+                    }
+
+                    continue;
+                }
+
                 for (var j = 0; j < d; j++)
                 {
                     var x = row[j];
@@ -56,7 +70,7 @@ internal static class Covariance
                         s[j] += x;
                         n[j]++;
                     }
-                    else if (fill is not null)
+                    else
                     {
                         s[j] += fill.Value(t, j);
                         n[j]++;
