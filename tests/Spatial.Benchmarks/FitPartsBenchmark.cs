@@ -57,6 +57,7 @@ public sealed class FitPartsBenchmark : IBenchmark
                 _ = MetricCalculator.Compute(matrix.Row(r), MetricOptions.Default, state, bridged);
             }
         }), "µs/season");
+        report.Figure("Scoring.Score, one thread (projection + metrics)", Cpu(() => Scoring.Score(matrix, projector, MetricOptions.Default, Layout.Parallel(1), null)), "µs/season");
         var train = Enumerable.Range(0, rows).ToArray();
         var po = Layout.Parallel(1);
         report.Figure("mean", Cpu(() => Covariance.Mean(matrix, train, null, po, out _)), "µs/season");
