@@ -97,7 +97,7 @@ public static class SeasonalFit
         var projector = new GappyProjector(mean, components, options.Ridge);
         var scores = Scoring.Score(matrix, projector, options.MetricRules, po, f => Report(progress, 0.6 + (0.3 * f)));
         StageTimer.Lap(sw, "projection and metrics");
-        var correlations = Correlations(scores, train, k);
+        var correlations = Correlations(scores, train, k, po);
         StageTimer.Lap(sw, "correlations");
         var labels = Interpreter.Label(components, correlations, options.LabelMinCorrelation);
         for (var c = 0; c < k; c++)
@@ -137,7 +137,8 @@ public static class SeasonalFit
             cumulative[c] = (c > 0 ? cumulative[c - 1] : 0) + fraction[c];
         }
 
-        var training = Enumerable.Range(0, k).Select(c => Distribution(train.Select(r => scores.Coefficient(r, c)))).ToArray();
+        var training = new TrainingDistribution[k];
+        Parallel.For(0, k, po, c => training[c] = Distribution(train.Select(r => scores.Coefficient(r, c))));
         StageTimer.Lap(sw, "training distribution");
         var provenance = new SortedDictionary<string, string>(StringComparer.Ordinal)
         {
@@ -380,20 +381,22 @@ public static class SeasonalFit
         return (mean, cov, values, all, false);
     }
 
-    private static double[][] Correlations(SeasonScores scores, int[] train, int k)
+    private static double[][] Correlations(SeasonScores scores, int[] train, int k, ParallelOptions po)
     {
+        var metrics = SeasonMetrics.Names.Count;
         var result = new double[k][];
         for (var c = 0; c < k; c++)
         {
-            result[c] = new double[SeasonMetrics.Names.Count];
-            var cc = c;
-            for (var m = 0; m < SeasonMetrics.Names.Count; m++)
-            {
-                var mm = m;
-                result[c][m] = Statistics.Pearson(r => scores.Coefficient(r, cc), r => scores.Metrics(r)[mm], train);
-            }
+            result[c] = new double[metrics];
         }
 
+        // Each (component, metric) pair is summed alone, in row order: the same numbers whatever the thread count.
+        Parallel.For(0, k * metrics, po, pair =>
+        {
+            var c = pair / metrics;
+            var m = pair % metrics;
+            result[c][m] = Statistics.Pearson(r => scores.Coefficient(r, c), r => scores.Metrics(r)[m], train);
+        });
         return result;
     }
 

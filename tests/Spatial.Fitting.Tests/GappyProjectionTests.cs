@@ -81,8 +81,10 @@ public sealed class GappyProjectionTests
         var plain = new double[2];
         var ridged = new double[2];
         var res = new double[3];
-        new GappyProjector(new double[365], basis, 0).Project(row, plain, res, new double[20 + 730]);
-        new GappyProjector(new double[365], basis, 0.5).Project(row, ridged, res, new double[20 + 730]);
+        var p0 = new GappyProjector(new double[365], basis, 0);
+        var p1 = new GappyProjector(new double[365], basis, 0.5);
+        p0.Project(row, plain, res, new double[p0.ScratchLength]);
+        p1.Project(row, ridged, res, new double[p1.ScratchLength]);
         Assert.True(Math.Abs(ridged[0]) < Math.Abs(plain[0]));
     }
 }

@@ -1,3 +1,5 @@
+using System.Runtime.Intrinsics;
+
 namespace Spatial.Fitting.Internal;
 
 /// <summary>
@@ -13,17 +15,22 @@ namespace Spatial.Fitting.Internal;
 internal sealed class GappyProjector
 {
     private readonly double[] mean;
+    private readonly double[] meanOrZero;
+    private readonly double[] usable;
     private readonly double[] byDay;
-    private readonly double[] fullGram;
-    private readonly int usableDays;
+    private readonly double[] padded;
+    private readonly int kp;
 
     public GappyProjector(double[] mean, double[][] components, double ridge)
     {
         this.mean = mean;
         K = components.Length;
         Ridge = ridge;
+        kp = (K + 3) / 4 * 4;
         byDay = new double[Layout.Days * K];
-        fullGram = new double[K * K];
+        padded = new double[Layout.Days * kp];
+        meanOrZero = new double[Layout.Days];
+        usable = new double[Layout.Days];
         for (var d = 0; d < Layout.Days; d++)
         {
             if (double.IsNaN(mean[d]))
@@ -31,18 +38,12 @@ internal sealed class GappyProjector
                 continue;
             }
 
-            usableDays++;
+            meanOrZero[d] = mean[d];
+            usable[d] = 1;
             for (var k = 0; k < K; k++)
             {
                 byDay[(d * K) + k] = components[k][d];
-            }
-
-            for (var a = 0; a < K; a++)
-            {
-                for (var b = 0; b < K; b++)
-                {
-                    fullGram[(a * K) + b] += components[a][d] * components[b][d];
-                }
+                padded[(d * kp) + k] = components[k][d];
             }
         }
     }
@@ -55,81 +56,103 @@ internal sealed class GappyProjector
     public double[] ComponentsByDay => byDay;
 
     /// <summary>Scratch size in doubles for <see cref="Project"/>.</summary>
-    public int ScratchLength => (K * K) + K + (2 * Layout.Days);
+    public int ScratchLength => (K * K) + K + (kp * kp) + kp + (2 * Layout.Days);
 
     /// <summary>Projects one row; writes K coefficients and K+1 residuals.</summary>
+    /// <remarks>
+    /// Branch-free over days: y_d = x_d − m_d and w_d = 1 on observed usable days, y_d = w_d = 0 otherwise; the normal
+    /// equations G = Σ w_d v_d v_dᵀ and b = Σ y_d v_d are summed with 4-wide double vectors over the padded components.
+    /// </remarks>
     public unsafe void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch)
     {
         var k = K;
         var g = scratch[..(k * k)];
         var b = scratch.Slice(k * k, k);
-        var ys = scratch.Slice((k * k) + k, Layout.Days);
-        var days = scratch.Slice((k * k) + k + Layout.Days, Layout.Days);
-        b.Clear();
-        var n = 0;
-        var yy = 0.0;
+        var gp = scratch.Slice((k * k) + k, kp * kp);
+        var bp = scratch.Slice((k * k) + k + (kp * kp), kp);
+        var ys = scratch.Slice((k * k) + k + (kp * kp) + kp, Layout.Days);
+        var ws = scratch.Slice((k * k) + k + (kp * kp) + kp + Layout.Days, Layout.Days);
+        gp.Clear();
+        bp.Clear();
+        double n = 0, yy = 0;
         fixed (float* px = row)
-        fixed (double* pm = mean, pv = byDay, pb = b, pys = ys, pdays = days)
+        fixed (double* pm = meanOrZero, pu = usable, pv = padded, pys = ys, pws = ws, pg = gp, pb = bp)
         {
             for (var d = 0; d < Layout.Days; d++)
             {
                 var x = px[d];
-                var m = pm[d];
-                if (float.IsNaN(x) || double.IsNaN(m))
-                {
-                    continue;
-                }
-
-                var y = x - m;
-                pys[n] = y;
-                pdays[n] = d;
-                n++;
+                var observed = !float.IsNaN(x);
+                var ok = observed ? pu[d] : 0.0;
+                var y = ok * ((observed ? x : 0f) - pm[d]);
+                pys[d] = y;
+                pws[d] = ok;
+                n += ok;
                 yy += y * y;
-                var v = pv + (d * k);
-                for (var a = 0; a < k; a++)
-                {
-                    pb[a] += v[a] * y;
-                }
             }
-        }
 
-        if (n == 0)
-        {
-            coefficients.Fill(double.NaN);
-            residuals.Fill(double.NaN);
-            return;
-        }
-
-        // Gram matrix over observed days: built directly, or as full minus missing when fewer are missing.
-        fixed (double* pg = g, pv = byDay, pdays = days, pm = mean)
-        {
-            if (2 * n >= usableDays)
+            if (n == 0)
             {
-                fullGram.CopyTo(g);
-                var j = 0;
+                coefficients.Fill(double.NaN);
+                residuals.Fill(double.NaN);
+                return;
+            }
+
+            if (kp == 4)
+            {
+                // K ≤ 4: the 4×4 normal equations live in registers.
+                var g0 = Vector256<double>.Zero;
+                var g1 = Vector256<double>.Zero;
+                var g2 = Vector256<double>.Zero;
+                var g3 = Vector256<double>.Zero;
+                var bb = Vector256<double>.Zero;
                 for (var d = 0; d < Layout.Days; d++)
                 {
-                    if (j < n && (int)pdays[j] == d)
-                    {
-                        j++;
-                        continue;
-                    }
-
-                    if (double.IsNaN(pm[d]))
-                    {
-                        continue;
-                    }
-
-                    AddOuter(pg, pv + (d * k), k, -1.0);
+                    var v = pv + (d * 4);
+                    var vq = Vector256.Load(v);
+                    var wv = vq * pws[d];
+                    bb += vq * pys[d];
+                    g0 += vq * wv.GetElement(0);
+                    g1 += vq * wv.GetElement(1);
+                    g2 += vq * wv.GetElement(2);
+                    g3 += vq * wv.GetElement(3);
                 }
+
+                Vector256.Store(bb, pb);
+                Vector256.Store(g0, pg);
+                Vector256.Store(g1, pg + 4);
+                Vector256.Store(g2, pg + 8);
+                Vector256.Store(g3, pg + 12);
             }
             else
             {
-                g.Clear();
-                for (var j = 0; j < n; j++)
+                var quads = kp / 4;
+                for (var d = 0; d < Layout.Days; d++)
                 {
-                    AddOuter(pg, pv + ((int)pdays[j] * k), k, 1.0);
+                    var w = pws[d];
+                    var v = pv + (d * kp);
+                    var y = Vector256.Create(pys[d]);
+                    for (var q = 0; q < quads; q++)
+                    {
+                        var vq = Vector256.Load(v + (4 * q));
+                        var bq = Vector256.Load(pb + (4 * q));
+                        Vector256.Store(bq + (vq * y), pb + (4 * q));
+                        for (var a = 0; a < k; a++)
+                        {
+                            var ga = pg + (a * kp) + (4 * q);
+                            var va = Vector256.Create(v[a] * w);
+                            Vector256.Store(Vector256.Load(ga) + (vq * va), ga);
+                        }
+                    }
                 }
+            }
+        }
+
+        for (var a = 0; a < k; a++)
+        {
+            b[a] = bp[a];
+            for (var c = 0; c < k; c++)
+            {
+                g[(a * k) + c] = gp[(a * kp) + c];
             }
         }
 
@@ -156,7 +179,7 @@ internal sealed class GappyProjector
         }
 
         b.CopyTo(coefficients);
-        Residuals(ys[..n], days[..n], coefficients, residuals, yy);
+        Residuals(ys, ws, coefficients, residuals, yy);
     }
 
     /// <summary>Coefficients of a complete (filled) centred row: plain dot products with the components (EM step).</summary>
@@ -179,42 +202,54 @@ internal sealed class GappyProjector
         }
     }
 
-    private unsafe void Residuals(ReadOnlySpan<double> ys, ReadOnlySpan<double> days, ReadOnlySpan<double> c, Span<double> residuals, double yy)
+    private unsafe void Residuals(ReadOnlySpan<double> ys, ReadOnlySpan<double> ws, ReadOnlySpan<double> c, Span<double> residuals, double yy)
     {
         var k = K;
         residuals.Clear();
-        fixed (double* pys = ys, pdays = days, pc = c, pr = residuals, pv = byDay)
+        fixed (double* pys = ys, pws = ws, pc = c, pr = residuals, pv = padded)
         {
-            for (var j = 0; j < ys.Length; j++)
+            if (kp == 4)
             {
-                var r = pys[j];
-                var v = pv + ((int)pdays[j] * k);
-                pr[0] += r * r;
+                // Running residuals r_a = y − Σ_{i≤a} c_i v_i as a 4-vector: prefix sums of c ⊙ v.
+                var cv = Vector256.Create(pc[0], k > 1 ? pc[1] : 0, k > 2 ? pc[2] : 0, k > 3 ? pc[3] : 0);
+                var acc = Vector256<double>.Zero;
+                for (var d = 0; d < Layout.Days; d++)
+                {
+                    var t = cv * Vector256.Load(pv + (d * 4));
+                    var t0 = t.GetElement(0);
+                    var t01 = t0 + t.GetElement(1);
+                    var t012 = t01 + t.GetElement(2);
+                    var prefix = Vector256.Create(t0, t01, t012, t012 + t.GetElement(3));
+                    var r = Vector256.Create(pys[d]) - prefix;
+                    acc += r * r * pws[d];
+                }
+
                 for (var a = 0; a < k; a++)
                 {
-                    r -= pc[a] * v[a];
-                    pr[a + 1] += r * r;
+                    pr[a + 1] = acc.GetElement(a);
+                }
+            }
+            else
+            {
+                for (var d = 0; d < Layout.Days; d++)
+                {
+                    var w = pws[d];
+                    var r = pys[d];
+                    var v = pv + (d * kp);
+                    for (var a = 0; a < k; a++)
+                    {
+                        r -= pc[a] * v[a];
+                        pr[a + 1] += w * r * r;
+                    }
                 }
             }
         }
 
+        residuals[0] = yy;
         var scale = Math.Sqrt(yy);
         for (var a = 0; a <= k; a++)
         {
             residuals[a] = scale > 0 ? Math.Sqrt(residuals[a]) / scale : double.NaN;
-        }
-    }
-
-    private static unsafe void AddOuter(double* g, double* v, int k, double sign)
-    {
-        for (var a = 0; a < k; a++)
-        {
-            var va = sign * v[a];
-            var rowG = g + (a * k);
-            for (var b = 0; b < k; b++)
-            {
-                rowG[b] += va * v[b];
-            }
         }
     }
 }
