@@ -12,6 +12,7 @@ internal sealed partial record NistDataset(
     string Name,
     string[] DataColumns,
     double[][] Data,
+    string[][] DataText,
     Spatial.Regression.Internal.DoubleDouble[][] DataExact,
     bool Intercept,
     int PolynomialDegree,
@@ -31,9 +32,11 @@ internal sealed partial record NistDataset(
         var header = lines[first - 2].Replace("Data:", string.Empty, StringComparison.Ordinal).Split(' ', StringSplitOptions.RemoveEmptyEntries);
         var data = new List<double[]>();
         var exact = new List<Spatial.Regression.Internal.DoubleDouble[]>();
+        var text = new List<string[]>();
         for (var i = first - 1; i < last; i++)
         {
             var tokens = lines[i].Split(' ', StringSplitOptions.RemoveEmptyEntries);
+            text.Add(tokens);
             data.Add(tokens.Select(t => double.Parse(t, CultureInfo.InvariantCulture)).ToArray());
             exact.Add(tokens.Select(t => Spatial.Regression.Internal.DoubleDouble.TryParse(t, out var v) ? v : throw new FormatException(t)).ToArray());
         }
@@ -67,7 +70,7 @@ internal sealed partial record NistDataset(
         var intercept = names.Contains("B0");
         var powers = Power().Matches(model).Select(m => int.Parse(m.Groups[1].Value, CultureInfo.InvariantCulture)).DefaultIfEmpty(1).Max();
         var multiple = header.Length > 2;
-        return new NistDataset(name, header, [.. data], [.. exact], intercept, multiple ? 0 : powers, [.. names], [.. est], [.. sd], resSd, r2);
+        return new NistDataset(name, header, [.. data], [.. text], [.. exact], intercept, multiple ? 0 : powers, [.. names], [.. est], [.. sd], resSd, r2);
     }
 
     /// <summary>Response column.</summary>

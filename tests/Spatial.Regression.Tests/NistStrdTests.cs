@@ -84,4 +84,47 @@ public sealed class NistStrdTests(Xunit.Abstractions.ITestOutputHelper output)
             .Append(Tolerance.LogRelativeError(d.CertifiedResidualSd, fit.Sigma)).Append(Tolerance.LogRelativeError(d.CertifiedR2, fit.RSquared)).Min();
         output.WriteLine($"{dataset} ({mode}, condition {fit.ConditionNumber:G3}): lowest log relative error {lowest:F2}");
     }
+
+    /// <summary>The NIST sets whose design is the data columns themselves (no powers to form): Norris, NoInt1/2, Longley.</summary>
+    public static TheoryData<string> LinearDatasets()
+    {
+        var data = new TheoryData<string>();
+        foreach (var f in Directory.GetFiles(TestData.Path("nist-strd"), "*.dat").OrderBy(f => f, StringComparer.Ordinal))
+        {
+            var d = NistDataset.Parse(f);
+            if (d.PolynomialDegree <= 1)
+            {
+                data.Add(d.Name);
+            }
+        }
+
+        return data;
+    }
+
+    [Theory]
+    [MemberData(nameof(LinearDatasets))]
+    public void Given_a_NIST_dataset_as_a_CSV_table_When_the_stage_entry_fits_it_Then_the_certified_digits_hold(string dataset)
+    {
+        var path = TestData.Path("nist-strd", dataset + ".dat");
+        var d = NistDataset.Parse(path);
+        var csv = new System.Text.StringBuilder(string.Join(",", d.DataColumns)).Append('\n');
+        foreach (var row in d.DataText)
+        {
+            csv.Append(string.Join(",", row)).Append('\n');
+        }
+
+        var table = Table.ParseCsv(csv.ToString(), dataset + ".csv");
+
+        var report = RegressionRun.Fit(table, new ModelSpec(d.DataColumns[0], d.DataColumns[1..], d.Intercept), new RegressionOptions());
+
+        // NIST StRD certified values (the .dat file's certified block)
+        for (var j = 0; j < d.CertifiedEstimates.Length; j++)
+        {
+            Tolerance.Digits(d.CertifiedEstimates[j], report.Fit.Coefficients[j].Estimate, RequiredDigits, $"{dataset} {d.CertifiedNames[j]} estimate");
+            Tolerance.Digits(d.CertifiedSd[j], report.Fit.Coefficients[j].StandardError, RequiredDigits, $"{dataset} {d.CertifiedNames[j]} standard deviation");
+        }
+
+        Tolerance.Digits(d.CertifiedResidualSd, report.Fit.Sigma, RequiredDigits, $"{dataset} residual standard deviation");
+        Tolerance.Digits(d.CertifiedR2, report.Fit.RSquared, RequiredDigits, $"{dataset} R-squared");
+    }
 }
