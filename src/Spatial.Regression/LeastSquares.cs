@@ -27,7 +27,10 @@ public static class LeastSquares
     /// </summary>
     internal const double DoublePathConditionLimit = 1e3;
 
-    internal static LeastSquaresFit Fit(IReadOnlyList<string> names, IReadOnlyList<double[]> predictors, double[] y, bool intercept, double[]? weights, string source, bool forceDoubleDouble)
+    /// <param name="exactPredictors">Optional: the same predictors at double-double precision (decimal text read
+    /// exactly); used, with <paramref name="exactY"/>, when the design needs the double-double factorisation and
+    /// there are no weights, so that rounding the data to double does not limit the accuracy.</param>
+    internal static LeastSquaresFit Fit(IReadOnlyList<string> names, IReadOnlyList<double[]> predictors, double[] y, bool intercept, double[]? weights, string source, bool forceDoubleDouble, DoubleDouble[][]? exactPredictors = null, DoubleDouble[]? exactY = null)
     {
         ArgumentNullException.ThrowIfNull(names);
         ArgumentNullException.ThrowIfNull(predictors);
@@ -95,17 +98,37 @@ public static class LeastSquares
         var yw = sw is null ? y : Mul(y, sw);
 
         ILeastSquaresFactor qr = new DoubleQr(xw);
+        DoubleDouble[]? ySolve = null;
+        DoubleDouble[]? yResidual = null;
         CheckRank(qr, colNames, source);
         var conditionNumber = ConditionNumber(qr);
         if (forceDoubleDouble || !(conditionNumber <= DoublePathConditionLimit))
         {
-            qr = new DdQr(xw);
+            if (exactPredictors is not null && exactY is not null && weights is null)
+            {
+                var design = new List<DoubleDouble[]>();
+                if (intercept)
+                {
+                    design.Add(Enumerable.Repeat((DoubleDouble)1.0, n).ToArray());
+                }
+
+                design.AddRange(exactPredictors);
+                var exact = new DdQr([.. design]);
+                qr = exact;
+                ySolve = exact.Solve(exactY, 2);
+                yResidual = exact.Residuals(exactY, ySolve);
+            }
+            else
+            {
+                qr = new DdQr(xw);
+            }
+
             CheckRank(qr, colNames, source);
             conditionNumber = ConditionNumber(qr);
         }
 
-        var bdd = qr.Solve(yw, 2);
-        var resDd = qr.Residuals(yw, bdd);
+        var bdd = ySolve ?? qr.Solve(yw, 2);
+        var resDd = yResidual ?? qr.Residuals(yw, bdd);
         var rssDd = DoubleDouble.Zero;
         foreach (var r in resDd)
         {

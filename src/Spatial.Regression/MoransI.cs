@@ -64,31 +64,30 @@ public static class MoransI
             m4 += v * v * v * v;
         }
 
-        // S0, S1, S2 with the transpose gathered from the sparse rows.
+        // S0, S1, S2 from the sparse rows (neighbour lists are sorted, so w_ji is found by binary search).
         double s0 = 0, s1 = 0;
         var rowSum = new double[n];
         var colSum = new double[n];
-        var pairs = new Dictionary<(int, int), double>();
         for (var i = 0; i < n; i++)
         {
             var nb = weights.NeighboursOf(i);
             var w = weights.WeightsOf(i);
             for (var k = 0; k < nb.Length; k++)
             {
+                var j = nb[k];
                 s0 += w[k];
                 rowSum[i] += w[k];
-                colSum[nb[k]] += w[k];
-                pairs[(i, nb[k])] = w[k];
-            }
-        }
-
-        foreach (var ((i, j), wij) in pairs)
-        {
-            var wji = pairs.TryGetValue((j, i), out var v) ? v : 0.0;
-            s1 += (wij + wji) * (wij + wji);
-            if (wji == 0)
-            {
-                s1 += wij * wij; // the (j, i) term of the half-sum, absent from the sparse list
+                colSum[j] += w[k];
+                var back = weights.NeighboursOf(j).BinarySearch(i);
+                if (back >= 0)
+                {
+                    var sum = w[k] + weights.WeightsOf(j)[back];
+                    s1 += sum * sum; // counted again from row j: the half-sum takes care of it
+                }
+                else
+                {
+                    s1 += 2 * w[k] * w[k]; // the (i, j) and (j, i) terms of the half-sum, w_ji = 0
+                }
             }
         }
 

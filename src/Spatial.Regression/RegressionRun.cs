@@ -60,6 +60,8 @@ public static class RegressionRun
 
         var distinct = used.Distinct(StringComparer.Ordinal).ToList();
         var values = distinct.ToDictionary(c => c, _ => new List<double>(table.RowCount), StringComparer.Ordinal);
+        var exactValues = distinct.ToDictionary(c => c, _ => new List<Internal.DoubleDouble>(table.RowCount), StringComparer.Ordinal);
+        var exactCell = new Internal.DoubleDouble[distinct.Count];
         var ids = new List<string>();
         var lines = new List<long>();
         var hasStation = table.HasColumn(options.StationColumn);
@@ -90,6 +92,7 @@ public static class RegressionRun
                 }
 
                 cell[c] = v;
+                exactCell[c] = Internal.DoubleDouble.TryParse(text, out var dd) ? dd : v;
             }
 
             if (!complete)
@@ -101,6 +104,7 @@ public static class RegressionRun
             for (var c = 0; c < distinct.Count; c++)
             {
                 values[distinct[c]].Add(cell[c]);
+                exactValues[distinct[c]].Add(exactCell[c]);
             }
 
             ids.Add(hasStation && table.Cell(r, options.StationColumn).Length > 0 ? table.Cell(r, options.StationColumn) : $"row{r + 1}");
@@ -115,7 +119,8 @@ public static class RegressionRun
         var y = values[spec.Response].ToArray();
         var xs = spec.Predictors.Select(p => values[p].ToArray()).ToArray();
         var w = spec.Weights is null ? null : values[spec.Weights].ToArray();
-        var fit = LeastSquares.Fit(spec.Predictors, xs, y, spec.Intercept, w, table.Source);
+        // The decimal text at double-double precision, used when the design needs the double-double path.
+        var fit = LeastSquares.Fit(spec.Predictors, xs, y, spec.Intercept, w, table.Source, forceDoubleDouble: false, spec.Predictors.Select(p => exactValues[p].ToArray()).ToArray(), exactValues[spec.Response].ToArray());
 
         var influential = Enumerable.Range(0, fit.N)
             .Where(i => !double.IsNaN(fit.CooksDistance[i]))

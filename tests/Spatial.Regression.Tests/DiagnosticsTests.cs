@@ -136,3 +136,36 @@ public sealed class DiagnosticsTests
         Assert.Contains("intercept", e.Message, StringComparison.Ordinal);
     }
 }
+
+/// <summary>Decimal text read at double-double precision.</summary>
+public sealed class DoubleDoubleParseTests
+{
+    [Theory]
+    [InlineData("0.1", 1, -1)]
+    [InlineData("-0.358191792925910E-01", -358191792925910, -16)]
+    [InlineData("0.00123", 123, -5)]
+    [InlineData("60323", 60323, 0)]
+    [InlineData("1.5e3", 15, 2)]
+    public void Decimal_text_is_read_to_about_31_digits(string text, long mantissa, int exponent)
+    {
+        Assert.True(Spatial.Regression.Internal.DoubleDouble.TryParse(text, out var v));
+
+        // Exact decimal value m·10^e: v·10^(−e) − m must vanish to double-double rounding (relative 1e-30).
+        var scaled = v;
+        for (var k = 0; k < Math.Abs(exponent); k++)
+        {
+            scaled = exponent < 0 ? scaled * 10.0 : scaled / 10.0;
+        }
+
+        var diff = (scaled - (double)mantissa).ToDouble();
+        Assert.True(Math.Abs(diff) <= 1e-30 * Math.Abs(mantissa) * 20, $"{text}: off by {diff:R}");
+    }
+
+    [Theory]
+    [InlineData("abc")]
+    [InlineData("")]
+    [InlineData("1.2.3")]
+    [InlineData("NaN")]
+    public void Text_that_is_not_a_decimal_number_is_refused(string text) =>
+        Assert.False(Spatial.Regression.Internal.DoubleDouble.TryParse(text, out _));
+}

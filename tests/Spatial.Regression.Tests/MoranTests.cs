@@ -104,4 +104,45 @@ public sealed class MoranTests
         Assert.Equal([2, 3], w.NeighboursOf(4).ToArray());
         Assert.Equal([0.5, 0.5], w.WeightsOf(4).ToArray());
     }
+
+    [Fact]
+    public void Given_asymmetric_k_nearest_weights_When_S1_and_S2_are_formed_Then_they_equal_the_dense_definitions()
+    {
+        // Seeded plumbing points; dense S1 = ½ ΣΣ (w_ij + w_ji)², S2 = Σ (w_i· + w_·i)² (Cliff & Ord 1981).
+        var rng = new Random(8);
+        var lon = Enumerable.Range(0, 30).Select(_ => 6 + rng.NextDouble()).ToArray();
+        var lat = Enumerable.Range(0, 30).Select(_ => 61 + rng.NextDouble()).ToArray();
+        var values = Enumerable.Range(0, 30).Select(_ => rng.NextDouble()).ToArray();
+        var w = SpatialWeights.KNearest(lon, lat, 3, WeightStyle.RowStandardised);
+        var dense = new double[30, 30];
+        for (var i = 0; i < 30; i++)
+        {
+            var nb = w.NeighboursOf(i).ToArray();
+            var wt = w.WeightsOf(i).ToArray();
+            for (var k = 0; k < nb.Length; k++)
+            {
+                dense[i, nb[k]] = wt[k];
+            }
+        }
+
+        double s1 = 0, s2 = 0;
+        for (var i = 0; i < 30; i++)
+        {
+            double row = 0, col = 0;
+            for (var j = 0; j < 30; j++)
+            {
+                s1 += 0.5 * (dense[i, j] + dense[j, i]) * (dense[i, j] + dense[j, i]);
+                row += dense[i, j];
+                col += dense[j, i];
+            }
+
+            s2 += (row + col) * (row + col);
+        }
+
+        var m = MoransI.Compute(values, w, 0, 1);
+
+        Tolerance.Relative(s1, m.S1, 1e-12, "S1");
+        Tolerance.Relative(s2, m.S2, 1e-12, "S2");
+        Tolerance.Near(30.0, m.S0, 1e-12, "S0 of row-standardised weights");
+    }
 }

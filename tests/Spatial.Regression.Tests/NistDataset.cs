@@ -12,6 +12,8 @@ internal sealed partial record NistDataset(
     string Name,
     string[] DataColumns,
     double[][] Data,
+    string[][] DataText,
+    Spatial.Regression.Internal.DoubleDouble[][] DataExact,
     bool Intercept,
     int PolynomialDegree,
     string[] CertifiedNames,
@@ -29,9 +31,14 @@ internal sealed partial record NistDataset(
         var last = int.Parse(range.Groups[2].Value, CultureInfo.InvariantCulture);
         var header = lines[first - 2].Replace("Data:", string.Empty, StringComparison.Ordinal).Split(' ', StringSplitOptions.RemoveEmptyEntries);
         var data = new List<double[]>();
+        var exact = new List<Spatial.Regression.Internal.DoubleDouble[]>();
+        var text = new List<string[]>();
         for (var i = first - 1; i < last; i++)
         {
-            data.Add(lines[i].Split(' ', StringSplitOptions.RemoveEmptyEntries).Select(t => double.Parse(t, CultureInfo.InvariantCulture)).ToArray());
+            var tokens = lines[i].Split(' ', StringSplitOptions.RemoveEmptyEntries);
+            text.Add(tokens);
+            data.Add(tokens.Select(t => double.Parse(t, CultureInfo.InvariantCulture)).ToArray());
+            exact.Add(tokens.Select(t => Spatial.Regression.Internal.DoubleDouble.TryParse(t, out var v) ? v : throw new FormatException(t)).ToArray());
         }
 
         var names = new List<string>();
@@ -63,7 +70,7 @@ internal sealed partial record NistDataset(
         var intercept = names.Contains("B0");
         var powers = Power().Matches(model).Select(m => int.Parse(m.Groups[1].Value, CultureInfo.InvariantCulture)).DefaultIfEmpty(1).Max();
         var multiple = header.Length > 2;
-        return new NistDataset(name, header, [.. data], intercept, multiple ? 0 : powers, [.. names], [.. est], [.. sd], resSd, r2);
+        return new NistDataset(name, header, [.. data], [.. text], [.. exact], intercept, multiple ? 0 : powers, [.. names], [.. est], [.. sd], resSd, r2);
     }
 
     /// <summary>Response column.</summary>
@@ -82,6 +89,29 @@ internal sealed partial record NistDataset(
         var names = Enumerable.Range(1, PolynomialDegree).Select(d => d == 1 ? "x" : $"x^{d}").ToArray();
         var cols = Enumerable.Range(1, PolynomialDegree).Select(d => x.Select(v => IntPow(v, d)).ToArray()).ToArray();
         return (names, cols);
+    }
+
+    /// <summary>Response at double-double precision (decimal text read exactly to 31 digits).</summary>
+    public Spatial.Regression.Internal.DoubleDouble[] YExact => DataExact.Select(r => r[0]).ToArray();
+
+    /// <summary>Predictor columns at double-double precision; polynomial powers formed in double-double.</summary>
+    public Spatial.Regression.Internal.DoubleDouble[][] PredictorsExact()
+    {
+        if (PolynomialDegree == 0)
+        {
+            return Enumerable.Range(1, DataColumns.Length - 1).Select(j => DataExact.Select(r => r[j]).ToArray()).ToArray();
+        }
+
+        return Enumerable.Range(1, PolynomialDegree).Select(d => DataExact.Select(r =>
+        {
+            var p = new Spatial.Regression.Internal.DoubleDouble(1.0, 0);
+            for (var k = 0; k < d; k++)
+            {
+                p *= r[1];
+            }
+
+            return p;
+        }).ToArray()).ToArray();
     }
 
     private static double IntPow(double v, int d)

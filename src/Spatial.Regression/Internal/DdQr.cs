@@ -17,7 +17,7 @@ internal sealed class DdQr : ILeastSquaresFactor
     /// <summary>Relative size of a diagonal of R (scaled columns) below which the design is called rank deficient.</summary>
     public const double RankTolerance = 1e-12;
 
-    private readonly double[][] x;       // original columns (not owned, not modified)
+    private readonly DoubleDouble[][] x; // original columns (not owned, not modified)
     private readonly DoubleDouble[][] a; // Householder vectors below/at the diagonal, R above (scaled)
     private readonly DoubleDouble[] rDiag;
     private readonly DoubleDouble[] vHead; // first element of each Householder vector
@@ -25,11 +25,18 @@ internal sealed class DdQr : ILeastSquaresFactor
     private DoubleDouble[,]? inverseScaledR;
 
     public DdQr(double[][] columns)
+        : this(columns.Select(c => c.Select(v => (DoubleDouble)v).ToArray()).ToArray())
+    {
+    }
+
+    /// <summary>Factorises columns given in double-double (e.g. decimal data read at extended precision).</summary>
+    public DdQr(DoubleDouble[][] columns)
     {
         x = columns;
         P = columns.Length;
         N = P == 0 ? 0 : columns[0].Length;
         Scale = new double[P];
+        ColumnNormScaled = new double[P];
         a = new DoubleDouble[P][];
         for (var j = 0; j < P; j++)
         {
@@ -37,17 +44,18 @@ internal sealed class DdQr : ILeastSquaresFactor
             double ss = 0;
             for (var i = 0; i < N; i++)
             {
-                ss += col[i] * col[i];
+                ss += col[i].Hi * col[i].Hi;
             }
 
             var norm = Math.Sqrt(ss);
             var s = norm > 0 && double.IsFinite(norm) ? Math.Pow(2, Math.Round(Math.Log2(norm))) : 1.0;
             Scale[j] = s;
+            ColumnNormScaled[j] = norm / s;
             var aj = new DoubleDouble[N];
             var inv = 1.0 / s;
             for (var i = 0; i < N; i++)
             {
-                aj[i] = col[i] * inv;
+                aj[i] = new DoubleDouble(col[i].Hi * inv, col[i].Lo * inv);
             }
 
             a[j] = aj;
@@ -57,18 +65,6 @@ internal sealed class DdQr : ILeastSquaresFactor
         vHead = new DoubleDouble[P];
         beta = new DoubleDouble[P];
         Factor();
-        ColumnNormScaled = new double[P];
-        for (var j = 0; j < P; j++)
-        {
-            double ss = 0;
-            for (var i = 0; i < N; i++)
-            {
-                var v = columns[j][i] / Scale[j];
-                ss += v * v;
-            }
-
-            ColumnNormScaled[j] = Math.Sqrt(ss);
-        }
     }
 
     public int N { get; }
@@ -181,13 +177,12 @@ internal sealed class DdQr : ILeastSquaresFactor
     }
 
     /// <summary>Least-squares coefficients (unscaled) for <paramref name="y"/>, in double-double, refined <paramref name="refinements"/> times.</summary>
-    public DoubleDouble[] Solve(double[] y, int refinements = 2)
+    public DoubleDouble[] Solve(double[] y, int refinements) => Solve(y.Select(v => (DoubleDouble)v).ToArray(), refinements);
+
+    /// <summary>Least-squares coefficients for a right-hand side given in double-double.</summary>
+    public DoubleDouble[] Solve(DoubleDouble[] y, int refinements)
     {
-        var r = new DoubleDouble[N];
-        for (var i = 0; i < N; i++)
-        {
-            r[i] = y[i];
-        }
+        var r = (DoubleDouble[])y.Clone();
 
         var b = SolveScaledToUnscaled(r);
         for (var it = 0; it < refinements; it++)
@@ -216,7 +211,24 @@ internal sealed class DdQr : ILeastSquaresFactor
     }
 
     /// <summary>Residuals y − X b computed in double-double from the original data.</summary>
-    public DoubleDouble[] Residuals(double[] y, DoubleDouble[] b) => ResidualsOf(x, y, b);
+    public DoubleDouble[] Residuals(double[] y, DoubleDouble[] b) => Residuals(y.Select(v => (DoubleDouble)v).ToArray(), b);
+
+    /// <summary>Residuals y − X b in double-double, y given in double-double.</summary>
+    public DoubleDouble[] Residuals(DoubleDouble[] y, DoubleDouble[] b)
+    {
+        var r = (DoubleDouble[])y.Clone();
+        for (var j = 0; j < P; j++)
+        {
+            var col = x[j];
+            var bj = b[j];
+            for (var i = 0; i < N; i++)
+            {
+                r[i] -= bj * col[i];
+            }
+        }
+
+        return r;
+    }
 
     /// <summary>Residuals y − X b in double-double for columns <paramref name="x"/>.</summary>
     internal static DoubleDouble[] ResidualsOf(double[][] x, double[] y, DoubleDouble[] b)

@@ -83,5 +83,112 @@ internal readonly record struct DoubleDouble(double Hi, double Lo)
         return TwoSum(x, corr);
     }
 
+    /// <summary>
+    /// Parses invariant decimal text (sign, digits, optional point, optional exponent) to double-double, keeping
+    /// up to 31 significant digits: the digits are accumulated exactly and scaled by a power of ten computed in
+    /// double-double (relative error about 1e-31). Returns false for anything else (including NaN and infinities).
+    /// </summary>
+    public static bool TryParse(ReadOnlySpan<char> text, out DoubleDouble value)
+    {
+        value = Zero;
+        text = text.Trim();
+        var i = 0;
+        var negative = false;
+        if (i < text.Length && (text[i] == '+' || text[i] == '-'))
+        {
+            negative = text[i] == '-';
+            i++;
+        }
+
+        var mantissa = Zero;
+        var digits = 0;
+        var significant = 0;
+        var exponent = 0;
+        var seenPoint = false;
+        for (; i < text.Length; i++)
+        {
+            var ch = text[i];
+            if (ch >= '0' && ch <= '9')
+            {
+                digits++;
+                if (significant < 31 && (significant > 0 || ch != '0'))
+                {
+                    mantissa = (mantissa * 10.0) + (double)(ch - '0');
+                    significant++;
+                    if (seenPoint)
+                    {
+                        exponent--;
+                    }
+                }
+                else if (significant > 0 || ch == '0')
+                {
+                    if (!seenPoint && significant >= 31)
+                    {
+                        exponent++;
+                    }
+                    else if (seenPoint && significant == 0)
+                    {
+                        exponent--;
+                    }
+                }
+            }
+            else if (ch == '.' && !seenPoint)
+            {
+                seenPoint = true;
+            }
+            else
+            {
+                break;
+            }
+        }
+
+        if (digits == 0)
+        {
+            return false;
+        }
+
+        if (i < text.Length)
+        {
+            if (text[i] != 'e' && text[i] != 'E')
+            {
+                return false;
+            }
+
+            if (!int.TryParse(text[(i + 1)..], System.Globalization.NumberStyles.AllowLeadingSign, System.Globalization.CultureInfo.InvariantCulture, out var e) || Math.Abs(e) > 300)
+            {
+                return false;
+            }
+
+            exponent += e;
+        }
+
+        var scale = PowerOfTen(Math.Abs(exponent));
+        value = exponent >= 0 ? mantissa * scale : mantissa / scale;
+        if (negative)
+        {
+            value = -value;
+        }
+
+        return double.IsFinite(value.Hi);
+    }
+
+    private static DoubleDouble PowerOfTen(int k)
+    {
+        var result = new DoubleDouble(1.0, 0);
+        var b = new DoubleDouble(10.0, 0);
+        while (k > 0)
+        {
+            if ((k & 1) == 1)
+            {
+                result *= b;
+            }
+
+            b *= b;
+            k >>= 1;
+        }
+
+        return result;
+    }
+
     public static DoubleDouble Abs(DoubleDouble a) => a.Hi < 0 || (a.Hi == 0 && a.Lo < 0) ? -a : a;
 }

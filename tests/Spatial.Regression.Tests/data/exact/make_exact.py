@@ -25,8 +25,8 @@ def powers(x, degree):
 
 def exact_fit(rows, y, intercept):
     n = len(rows)
-    X = [([Fraction(1)] if intercept else []) + [Fraction(v) for v in r] for r in rows]
-    Y = [Fraction(v) for v in y]
+    X = [([Fraction(1)] if intercept else []) + [v if isinstance(v, Fraction) else Fraction(v) for v in r] for r in rows]
+    Y = [v if isinstance(v, Fraction) else Fraction(v) for v in y]
     p = len(X[0])
     A = [[sum(X[i][a] * X[i][b] for i in range(n)) for b in range(p)] for a in range(p)]
     c = [sum(X[i][a] * Y[i] for i in range(n)) for a in range(p)]
@@ -57,16 +57,25 @@ def exact_fit(rows, y, intercept):
     return [dec(v) for v in b], se, dec(s2).sqrt(), dec(r2)
 
 
-def write(name, xs, ys, degree, intercept, note):
-    rows = [powers(x, degree) for x in xs]
-    b, se, sigma, r2 = exact_fit(rows, ys, intercept)
+def write(name, xs, ys, degree, intercept, note, decimal_text=False):
+    if decimal_text:
+        # The decimal values printed in the CSV (repr), with exact powers: what NIST certifies for its files.
+        dx = [Fraction(Decimal(repr(x))) for x in xs]
+        rows = [[d ** k for k in range(1, degree + 1)] for d in dx]
+        ys_used = [Fraction(Decimal(repr(v))) for v in ys]
+        name_out = name + ".decimal"
+    else:
+        rows = [powers(x, degree) for x in xs]
+        ys_used = ys
+        name_out = name
+    b, se, sigma, r2 = exact_fit(rows, ys_used, intercept)
     with open(name + ".csv", "w") as f:
         f.write("y,x\n")
         for x, y in zip(xs, ys):
             f.write(repr(y) + "," + repr(x) + "\n")
-    with open(name + ".certified.txt", "w") as f:
+    with open(name_out + ".certified.txt", "w") as f:
         f.write("# " + note + "\n")
-        f.write("# degree %d, intercept %s, n %d; exact rational least squares on the double design\n" % (degree, intercept, len(xs)))
+        f.write("# degree %d, intercept %s, n %d; exact rational least squares on the %s\n" % (degree, intercept, len(xs), "decimal text with exact powers" if decimal_text else "double design"))
         f.write("degree %d\nintercept %d\n" % (degree, 1 if intercept else 0))
         for j, (bj, sj) in enumerate(zip(b, se)):
             f.write("B%d %s %s\n" % (j if intercept else j + 1, format(bj, ".17e"), format(sj, ".17e")))
@@ -80,6 +89,7 @@ rng = random.Random(20261201)
 xs = [round(-3.1 - 5.7 * rng.random(), 9) for _ in range(82)]
 ys = [round(0.85 + 0.02 * (x + 6) - 0.004 * (x + 6) ** 2 + 0.0009 * (x + 6) ** 3 + rng.gauss(0, 0.003), 4) for x in xs]
 write("filip_like", xs, ys, 10, True, "Filip-like: degree 10 polynomial, x in [-8.8,-3.1], seeded random.Random(20261201)")
+write("filip_like", xs, ys, 10, True, "Filip-like, reference for the decimal text of the CSV with exact powers", decimal_text=True)
 
 # Degree-5 polynomial on x = 0..20 with very large residuals (the shape of NIST's Wampler5).
 xs = [float(i) for i in range(21)]
