@@ -31,6 +31,19 @@ public sealed class ReportVerbTests
     }
 
     [Fact]
+    public void Report_can_also_write_its_maps_and_plots_as_figure_files()
+    {
+        var dir = ExportVerbTests.SmallResults();
+        var figures = Path.Combine(dir, "figures");
+        var (code, _, stderr) = Run("report", dir, "--figures", figures);
+        Assert.True(code == 0, stderr);
+
+        // The small folder has no basis.json (so no component labels) but a trend per station: its map as SVG and PNG.
+        Assert.Equal(["map_sen_per_decade_c1.png", "map_sen_per_decade_c1.svg"], Directory.GetFiles(figures).Select(Path.GetFileName).Order(StringComparer.Ordinal));
+        Directory.Delete(dir, true);
+    }
+
+    [Fact]
     public void Report_defaults_to_report_html_in_the_results_folder()
     {
         var dir = ExportVerbTests.SmallResults();

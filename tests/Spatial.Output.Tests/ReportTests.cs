@@ -91,6 +91,19 @@ public sealed class ReportTests
     }
 
     [Fact]
+    public void Figures_folder_gets_every_map_and_plot_of_the_report_as_two_files()
+    {
+        var dir = TestData.NewScratchFolder("figures");
+        var result = ReportBuilder.Build(Fixtures.Results(), new ReportOptions(FiguresDir: dir)).Result;
+
+        // Every map and plot twice (SVG + PNG); no surfaces were given, so figures = maps + plots.
+        Assert.Equal(2 * result.Figures, Directory.GetFiles(dir).Length);
+        Assert.Equal(result.FigureFiles.Order(StringComparer.Ordinal), Directory.GetFiles(dir).Select(Path.GetFileName).Order(StringComparer.Ordinal));
+        Assert.Contains("map_median_c1.svg", result.FigureFiles);
+        Directory.Delete(dir, true);
+    }
+
+    [Fact]
     public void North_errors_on_the_eigenvalue_scale_become_fractions_of_the_variance()
     {
         // basis.json of the invented folder: λ1 = 52000, fraction 0.78, δλ1 = 7350 → 7350 × 0.78 / 52000 = 0.11025.

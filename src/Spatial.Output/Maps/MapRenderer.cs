@@ -95,7 +95,10 @@ public static class MapRenderer
         var mapW = env.Width * k;
         var mapH = env.Height * k;
         var ox = left + ((frameW - mapW) / 2);
-        var oy = top + ((frameH - mapH) / 2);
+
+        // A wide region leaves the frame half empty: shrink the drawing to the map (keeping room for the legend).
+        var height = Math.Min(options.HeightPx, Math.Max(440, (int)Math.Ceiling(mapH + top + bottom)));
+        var oy = top + ((height - top - bottom - mapH) / 2);
         (double X, double Y) Px(double x, double y) => (ox + ((x - env.MinX) * k), oy + ((env.MaxY - y) * k));
         (double X, double Y) PxLonLat(double lon, double lat)
         {
@@ -104,7 +107,7 @@ public static class MapRenderer
         }
 
         var title = options.Title ?? Internal.Variables.Label(options.Variable);
-        var d = new Drawing(options.WidthPx, options.HeightPx, title);
+        var d = new Drawing(options.WidthPx, height, title);
         d.Add(new DrawRect(ox, oy, mapW, mapH, Sea, null, 0));
         foreach (var g in coastGeoms)
         {
@@ -165,7 +168,7 @@ public static class MapRenderer
         AddScaleBar(d, k, ox + 14, oy + mapH - 18, mapW);
         AddNorthArrow(d, utm, lon0, lat0, k, ox + mapW - 30, oy + 46);
         var hemisphere = north ? "N" : "S";
-        d.Add(new DrawText(left, options.HeightPx - 14, $"WGS 84 / UTM zone {zone}{hemisphere}; {points.Count} stations{(options.Dem is null ? string.Empty : "; hillshade: Horn 1981 gradients, light from 315° at 45°")}", 11, Anchor.Start, false));
+        d.Add(new DrawText(left, height - 14, $"WGS 84 / UTM zone {zone}{hemisphere}; {points.Count} stations{(options.Dem is null ? string.Empty : "; hillshade: Horn 1981 gradients, light from 315° at 45°")}", 11, Anchor.Start, false));
         return d;
     }
 

@@ -24,18 +24,21 @@ public sealed record SeasonCurve(string Station, int Season, IReadOnlyList<doubl
 /// <param name="Surfaces">Predicted surfaces by response; null or empty leaves that section with a note.</param>
 /// <param name="Reconstructions">Daily curves of chosen seasons (from the season matrix); null leaves reconstructions out with a note.</param>
 /// <param name="CoastPath">Coastline GeoJSON; null uses the one in the results folder.</param>
+/// <param name="FiguresDir">When set, every map (SVG and PNG) and plot (PNG and SVG) of the report is also written there, for briefings.</param>
 public sealed record ReportOptions(
     string? Title = null,
     RasterGrid? Dem = null,
     IReadOnlyDictionary<string, RasterGrid>? Surfaces = null,
     IReadOnlyList<SeasonCurve>? Reconstructions = null,
-    string? CoastPath = null);
+    string? CoastPath = null,
+    string? FiguresDir = null);
 
 /// <summary>What <see cref="ReportBuilder.Write"/> put in the report.</summary>
 /// <param name="SectionIds">Section ids in order.</param>
 /// <param name="Figures">Number of maps and plots embedded.</param>
 /// <param name="Notes">What was left out and why.</param>
-public sealed record ReportResult(IReadOnlyList<string> SectionIds, int Figures, IReadOnlyList<string> Notes);
+/// <param name="FigureFiles">Files written to <see cref="ReportOptions.FiguresDir"/> (empty when none was given).</param>
+public sealed record ReportResult(IReadOnlyList<string> SectionIds, int Figures, IReadOnlyList<string> Notes, IReadOnlyList<string> FigureFiles);
 
 /// <summary>
 /// Writes one self-contained HTML report of a results folder: no network requests (maps as inline SVG, plots as
@@ -94,7 +97,7 @@ public static class ReportBuilder
         Section(h, 9, () => Provenance(h, ctx));
         Section(h, 10, () => h.P(ResidualDefinition).P("Scores c_i are in mm: the components are unit vectors over the 365 days, so a score is the depth-weighted size of that shape in the season. Day indices count from the season start (day 0). Trends are Sen slopes per decade with Mann–Kendall tests (mk_s, mk_z, mk_p). Standard errors marked HC3 are heteroskedasticity-consistent (MacKinnon & White 1985).").P(Caution, "caution"));
         h.Raw("</main><footer>").P($"spatial {ToolVersion}. {Caution}").Raw("</footer></body></html>\n");
-        return (h.ToString(), new ReportResult(Sections, ctx.Figures, ctx.Notes));
+        return (h.ToString(), new ReportResult(Sections, ctx.Figures, ctx.Notes, ctx.FigureFiles));
     }
 
     private static readonly string[] LeadColumns = ["station", "name", "elevation_m", "seasons"];
@@ -579,10 +582,24 @@ public static class ReportBuilder
 
         public int Figures { get; set; }
 
+        public List<string> FigureFiles { get; } = [];
+
+        private static string Slug(string text) =>
+            new string(text.ToLowerInvariant().Select(c => char.IsAsciiLetterOrDigit(c) ? c : '_').ToArray()).Trim('_') is var s && s.Length > 60 ? s[..60] : s;
+
         private readonly Dictionary<(RasterGrid Dem, string Frame), RgbaImage> backdrops = [];
 
         public void Img(Html h, Figure f)
         {
+            if (Options.FiguresDir is { } dir)
+            {
+                var name = $"plot_{Figures + 1:00}_{Slug(f.Title)}";
+                AtomicFile.WriteAllBytes(Path.Combine(dir, name + ".png"), f.Png);
+                AtomicFile.WriteAllText(Path.Combine(dir, name + ".svg"), f.Svg);
+                FigureFiles.Add(name + ".png");
+                FigureFiles.Add(name + ".svg");
+            }
+
             h.Raw("<figure>").Raw($"<img src=\"data:image/png;base64,{Convert.ToBase64String(f.Png)}\" alt=\"{Html.Esc(f.Title)}\" width=\"{PlotFactory.Width}\" height=\"{PlotFactory.Height}\"/>");
             h.Raw("<figcaption>").Text(f.Caption).Raw("</figcaption></figure>");
             Figures++;
@@ -590,7 +607,17 @@ public static class ReportBuilder
 
         public void Map(Html h, string variable, string caption)
         {
-            var svg = MapRenderer.Build(Folder, new MapOptions(variable, Dem: Options.Dem, CoastPath: Options.CoastPath, WidthPx: 860, HeightPx: 600), backdrops).ToSvg();
+            var drawing = MapRenderer.Build(Folder, new MapOptions(variable, Dem: Options.Dem, CoastPath: Options.CoastPath, WidthPx: 860, HeightPx: 600), backdrops);
+            var svg = drawing.ToSvg();
+            if (Options.FiguresDir is { } dir)
+            {
+                var name = $"map_{Slug(variable)}";
+                AtomicFile.WriteAllText(Path.Combine(dir, name + ".svg"), svg);
+                AtomicFile.WriteAllBytes(Path.Combine(dir, name + ".png"), drawing.ToPng(2));
+                FigureFiles.Add(name + ".svg");
+                FigureFiles.Add(name + ".png");
+            }
+
             h.Raw("<figure>").Raw(svg).Raw("<figcaption>").Text(caption).Raw("</figcaption></figure>");
             Figures++;
         }
