@@ -60,6 +60,9 @@ public sealed class ApiTests(ServerFixture fixture)
         Assert.Equal("day of season per decade", trend.GetProperty("unit").GetString());
         var c1 = meta.GetProperty("variables").EnumerateArray().First(v => v.GetProperty("key").GetString() == "stations.median_c1");
         Assert.Equal("Component 1 (amount): median of seasons", c1.GetProperty("label").GetString());
+        var residual = meta.GetProperty("variables").EnumerateArray().First(v => v.GetProperty("key").GetString() == "fitted.median_onset_day");
+        Assert.Equal("Regression residual of Season onset (median)", residual.GetProperty("label").GetString());
+        Assert.Equal("day of season", residual.GetProperty("unit").GetString());
         Assert.Equal(2000, meta.GetProperty("seasons").GetProperty("first").GetInt32());
         Assert.Equal(2000 + FixtureTests.Seasons - 1, meta.GetProperty("seasons").GetProperty("last").GetInt32());
         Assert.Equal(SyntheticResults.K, meta.GetProperty("components").GetInt32());
