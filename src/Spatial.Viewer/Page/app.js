@@ -93,8 +93,10 @@
     if (state.box && (state.box.w !== w || state.box.h !== h)) v.k = Math.max((v.k * state.box.w) / w, (v.k * state.box.h) / h);
     state.box = { w, h };
     svg.setAttribute('viewBox', [v.cx - (w / 2) * v.k, v.cy - (h / 2) * v.k, w * v.k, h * v.k].join(' '));
-    svg.style.setProperty('--r', String(5 * v.k));
-    svg.style.setProperty('--sw', String(0.7 * v.k));
+    // Marks shrink for dense networks (radius in screen pixels), strokes stay hairline-thin.
+    const n = state.data ? state.data.stations.length : 0, rpx = n > 3000 ? 2.5 : n > 800 ? 3.5 : 5;
+    svg.style.setProperty('--r', String(rpx * v.k));
+    svg.style.setProperty('--sw', String((n > 3000 ? 0.4 : 0.7) * v.k));
     svg.style.setProperty('--sw-hl', String(2.5 * v.k));
     drawScaleBar(v.k);
   }
@@ -179,8 +181,10 @@
     try { data = await getJson('/api/stations' + qs); } catch (e) { status('Cannot show the stations: ' + e.message); return; }
     if (seq !== loadSeq) return;
     const t1 = performance.now();
+    const resize = !state.data || state.data.stations.length !== data.stations.length;
     state.data = data;
     drawStations();
+    if (resize) applyView();
     // Where the time of the latest redraw went (read by the benchmark): fetch + parse, then drawing.
     document.documentElement.dataset.fetchMs = (t1 - t0).toFixed(1);
     document.documentElement.dataset.drawMs = (performance.now() - t1).toFixed(1);
