@@ -80,12 +80,15 @@ public sealed class ViewerServer : IAsyncDisposable
         return new ViewerServer(app, new Uri($"http://127.0.0.1:{port}/"), data.Stations.Count);
     }
 
-    /// <summary>Waits until <paramref name="cancel"/> is signalled (e.g. by Ctrl-C), then stops the server.</summary>
+    /// <summary>Waits until <paramref name="cancel"/> is signalled (e.g. by Ctrl-C) or the process is asked to terminate (SIGTERM), then stops the server.</summary>
     public async Task RunUntilCancelledAsync(CancellationToken cancel)
     {
+        // The host also stops on SIGTERM (its console lifetime): wait for either.
+        var lifetime = app.Services.GetRequiredService<IHostApplicationLifetime>();
+        using var either = CancellationTokenSource.CreateLinkedTokenSource(cancel, lifetime.ApplicationStopping);
         try
         {
-            await Task.Delay(Timeout.Infinite, cancel);
+            await Task.Delay(Timeout.Infinite, either.Token);
         }
         catch (OperationCanceledException)
         {

@@ -11,7 +11,9 @@ namespace Spatial.Benchmarks;
 /// The figure is the page's own mark: milliseconds from navigation start to the animation frame after the
 /// station marks were drawn (<c>html[data-render-ms]</c>), which includes fetching the page, the metadata,
 /// the layers and the station list from the local server.
-/// Usage: <c>dotnet run -c Release --project tests/Spatial.Benchmarks -- viewer [repeats]</c>.
+/// Usage: <c>dotnet run -c Release --project tests/Spatial.Benchmarks -- viewer [repeats]</c>; set
+/// <c>SPATIAL_BENCH_VERBOSE=1</c> for each render's breakdown and <c>SPATIAL_BENCH_SCREENSHOT=FILE.png</c> to keep a
+/// screenshot of the 10,000-station page.
 /// </summary>
 public sealed class ViewerBenchmark : IBenchmark
 {
@@ -101,6 +103,11 @@ public sealed class ViewerBenchmark : IBenchmark
             }
 
             var ms = await page.GetAttributeAsync("html", "data-render-ms");
+            if (Environment.GetEnvironmentVariable("SPATIAL_BENCH_SCREENSHOT") is { Length: > 0 } shot && stations == 10_000)
+            {
+                await page.ScreenshotAsync(new() { Path = Path.GetFullPath(shot) });
+            }
+
             if (Verbose)
             {
                 Console.WriteLine($"    {stations} stations: render {ms} ms (station list fetched in {await page.GetAttributeAsync("html", "data-fetch-ms")} ms, drawn in {await page.GetAttributeAsync("html", "data-draw-ms")} ms)");

@@ -60,6 +60,9 @@ public sealed class ApiTests(ServerFixture fixture)
         Assert.Equal("day of season per decade", trend.GetProperty("unit").GetString());
         var c1 = meta.GetProperty("variables").EnumerateArray().First(v => v.GetProperty("key").GetString() == "stations.median_c1");
         Assert.Equal("Component 1 (amount): median of seasons", c1.GetProperty("label").GetString());
+        var residual = meta.GetProperty("variables").EnumerateArray().First(v => v.GetProperty("key").GetString() == "fitted.median_onset_day");
+        Assert.Equal("Regression residual of Season onset (median)", residual.GetProperty("label").GetString());
+        Assert.Equal("day of season", residual.GetProperty("unit").GetString());
         Assert.Equal(2000, meta.GetProperty("seasons").GetProperty("first").GetInt32());
         Assert.Equal(2000 + FixtureTests.Seasons - 1, meta.GetProperty("seasons").GetProperty("last").GetInt32());
         Assert.Equal(SyntheticResults.K, meta.GetProperty("components").GetInt32());
@@ -273,5 +276,29 @@ public sealed class ApiTests(ServerFixture fixture)
         }
 
         Assert.Equal(0, failures);
+    }
+}
+
+public sealed class CurveWithoutReaderTests
+{
+    [Fact]
+    public async Task Without_a_season_matrix_reader_the_curve_has_no_observed_days_and_says_why()
+    {
+        await using var server = await ViewerServer.StartAsync(new ViewerOptions(ServerFixture.ResultsFolder));
+        using var http = new HttpClient { BaseAddress = server.Uri };
+        using var doc = JsonDocument.Parse(await http.GetStringAsync("/api/stations/MF-002/curve?season=2004"));
+        Assert.Equal(JsonValueKind.Null, doc.RootElement.GetProperty("observed").ValueKind);
+        Assert.Equal("no season-matrix reader was given to the viewer", doc.RootElement.GetProperty("observed_note").GetString());
+        Assert.Equal(SyntheticResults.K, doc.RootElement.GetProperty("reconstructions").GetArrayLength());
+    }
+
+    [Fact]
+    public async Task A_reader_that_fails_leaves_the_reconstruction_and_says_the_matrix_cannot_be_read()
+    {
+        await using var server = await ViewerServer.StartAsync(new ViewerOptions(ServerFixture.ResultsFolder, 0, (_, _) => throw new IOException("disk gone")));
+        using var http = new HttpClient { BaseAddress = server.Uri };
+        var text = await http.GetStringAsync("/api/stations/MF-002/curve?season=2004");
+        Assert.Contains("\"observed_note\":\"the season matrix cannot be read\"", text, StringComparison.Ordinal);
+        Assert.DoesNotContain("disk gone", text, StringComparison.Ordinal);
     }
 }

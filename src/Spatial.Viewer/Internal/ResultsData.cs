@@ -600,6 +600,11 @@ internal sealed class ResultsData
             return label is null ? $"Component {k}" : $"Component {k} ({label})";
         }
 
+        if (name.StartsWith("median_", StringComparison.Ordinal) && name.Length > "median_".Length)
+        {
+            return Describe(name["median_".Length..], basis) + " (median)";
+        }
+
         return name switch
         {
             "onset_day" => "Season onset",
@@ -632,6 +637,11 @@ internal sealed class ResultsData
     /// <summary>The unit of a column, from its name (the contract puts units in names).</summary>
     internal static string UnitOf(string name)
     {
+        if (name.StartsWith("median_", StringComparison.Ordinal) || name.StartsWith("iqr_", StringComparison.Ordinal))
+        {
+            return UnitOf(name[(name.IndexOf('_', StringComparison.Ordinal) + 1)..]);
+        }
+
         if (IsComponent(name))
         {
             return "mm (coefficient)";

@@ -530,12 +530,25 @@ internal sealed class ViewerApi(ResultsData data, Func<StationId, int, float[]?>
         }
 
         float[]? observed = null;
+        var observedNote = observedCurve is null ? "no season-matrix reader was given to the viewer" : string.Empty;
         if (observedCurve is not null)
         {
-            observed = observedCurve(data.Stations[i].Id, year);
-            if (observed is not null && observed.Length != ResultsData.SeasonDays)
+            try
             {
-                observed = null;
+                observed = observedCurve(data.Stations[i].Id, year);
+                if (observed is null)
+                {
+                    observedNote = "this season is not in the season matrix";
+                }
+                else if (observed.Length != ResultsData.SeasonDays)
+                {
+                    observed = null;
+                    observedNote = "the season matrix gave a curve of the wrong length";
+                }
+            }
+            catch (Exception e) when (e is SpatialDataException or IOException or InvalidDataException)
+            {
+                observedNote = "the season matrix cannot be read";
             }
         }
 
@@ -556,6 +569,7 @@ internal sealed class ViewerApi(ResultsData data, Func<StationId, int, float[]?>
             if (observed is null)
             {
                 w.WriteNull("observed");
+                w.WriteString("observed_note", observedNote);
             }
             else
             {

@@ -93,8 +93,10 @@
     if (state.box && (state.box.w !== w || state.box.h !== h)) v.k = Math.max((v.k * state.box.w) / w, (v.k * state.box.h) / h);
     state.box = { w, h };
     svg.setAttribute('viewBox', [v.cx - (w / 2) * v.k, v.cy - (h / 2) * v.k, w * v.k, h * v.k].join(' '));
-    svg.style.setProperty('--r', String(5 * v.k));
-    svg.style.setProperty('--sw', String(0.7 * v.k));
+    // Marks shrink for dense networks (radius in screen pixels), strokes stay hairline-thin.
+    const n = state.data ? state.data.stations.length : 0, rpx = n > 3000 ? 2.5 : n > 800 ? 3.5 : 5;
+    svg.style.setProperty('--r', String(rpx * v.k));
+    svg.style.setProperty('--sw', String((n > 3000 ? 0.4 : 0.7) * v.k));
     svg.style.setProperty('--sw-hl', String(2.5 * v.k));
     drawScaleBar(v.k);
   }
@@ -146,15 +148,16 @@
       else if (gm.type === 'GeometryCollection') gm.geometries.forEach(geom);
     };
     (gj.type === 'FeatureCollection' ? gj.features.map((f) => f.geometry) : gj.type === 'Feature' ? [gj.geometry] : [gj]).forEach(geom);
+    const land = $('g-land');
     g.replaceChildren();
-    for (const d of parts) el('path', { d }, g);
+    land.replaceChildren();
+    for (const d of parts) { el('path', { d }, g); el('path', { d }, land); }
   }
   function updateLayerVisibility() {
-    $('g-coast').style.display = $('layer-coast').checked ? '' : 'none';
+    $('g-coast').style.display = $('g-land').style.display = $('layer-coast').checked ? '' : 'none';
     $('g-hill').style.display = $('layer-hill').checked ? '' : 'none';
     const key = $('underlay').value, layer = state.meta.layers.predicted.find((p) => p.key === key);
     drawImage($('g-underlay'), layer || null);
-    $('g-coast').classList.toggle('over-image', !!layer || ($('layer-hill').checked && !!state.meta.layers.hillshade));
     $('underlay-note').textContent = layer ? `${layer.label}: ${fmt(layer.min)} to ${fmt(layer.max)} ${layer.unit} (colours as drawn by the export)` : '';
   }
 
@@ -178,8 +181,10 @@
     try { data = await getJson('/api/stations' + qs); } catch (e) { status('Cannot show the stations: ' + e.message); return; }
     if (seq !== loadSeq) return;
     const t1 = performance.now();
+    const resize = !state.data || state.data.stations.length !== data.stations.length;
     state.data = data;
     drawStations();
+    if (resize) applyView();
     // Where the time of the latest redraw went (read by the benchmark): fetch + parse, then drawing.
     document.documentElement.dataset.fetchMs = (t1 - t0).toFixed(1);
     document.documentElement.dataset.drawMs = (performance.now() - t1).toFixed(1);
@@ -240,6 +245,7 @@
     let info, seasons;
     try { [info, seasons] = await Promise.all([getJson('/api/stations/' + encodeURIComponent(id)), getJson('/api/stations/' + encodeURIComponent(id) + '/seasons')]); } catch (e) { status('Cannot open station ' + id + ': ' + e.message); return; }
     state.station = id;
+    $('tooltip').hidden = true;
     document.querySelectorAll('#g-stations circle.hl').forEach((c) => c.classList.remove('hl'));
     const mark = document.querySelector(`#g-stations circle[data-station="${CSS.escape(id)}"]`);
     if (mark) mark.classList.add('hl');
@@ -337,7 +343,7 @@
     if (c.observed) key.splice(1, 0, ['observed', 'observed']);
     key.forEach(([cls, text], i) => { const yy = T + 6 + i * 13; el('line', { x1: W - 200, x2: W - 180, y1: yy, y2: yy, class: cls }, svg); el('text', { x: W - 176, y: yy + 3 }, svg).textContent = text; });
     const coeffs = c.coefficients.slice(0, k).map((v, i) => `c${i + 1} (${c.labels[i]}) = ${fmt(v)}`).join(', ');
-    $('chart-note').textContent = (c.observed ? '' : 'Observed daily curve not available here: showing the mean and the reconstruction only. ') + coeffs;
+    $('chart-note').textContent = (c.observed ? '' : `Observed daily curve not shown (${c.observed_note}): mean and reconstruction only. `) + coeffs;
   }
 
   // ---- Controls ----
@@ -448,9 +454,17 @@
       $('filters').hidden = true;
       ['from', 'to', 'min-days', 'max-residual'].forEach((id) => { $(id).disabled = true; });
     }
-    // Fit the whole network (with a margin of a tenth of its size) to the window.
-    const mx = Math.max(b.east - b.west, 0.01) * 0.05, my = Math.max(b.north - b.south, 0.01) * 0.05;
-    state.homeBounds = { west: b.west - mx, east: b.east + mx, south: b.south - my, north: b.north + my };
+    // Fit the whole network (with a margin of a twentieth of its size each side) to the window, widened to
+    // the hillshade's box (the region) when that is not far larger than the network.
+    const sx = Math.max(b.east - b.west, 0.01), sy = Math.max(b.north - b.south, 0.01), hb = meta.layers.hillshade;
+    const home = { west: b.west - sx * 0.05, east: b.east + sx * 0.05, south: b.south - sy * 0.05, north: b.north + sy * 0.05 };
+    if (hb) {
+      home.west = Math.min(home.west, Math.max(hb.west, b.west - sx * 0.5));
+      home.east = Math.max(home.east, Math.min(hb.east, b.east + sx * 0.5));
+      home.south = Math.min(home.south, Math.max(hb.south, b.south - sy * 0.5));
+      home.north = Math.max(home.north, Math.min(hb.north, b.north + sy * 0.5));
+    }
+    state.homeBounds = home;
     fitView(state.homeBounds);
     state.home = { ...state.view };
     wire();
