@@ -14,14 +14,15 @@ internal readonly record struct CoastHit(double DistanceM, double AzimuthDeg, do
 /// Nearest point of a <see cref="CoastGeometry"/> to a station, exactly on the ellipsoid.
 /// </summary>
 /// <remarks>
-/// 1. Candidates: an STR-tree window around the station, widened ×4 until it holds a segment; the geodesic distance
-///    to the nearest end of those gives an upper bound D. 2. A conservative window: every point within geodesic
-///    distance D lies within D / 110 574 m of latitude (the shortest metres per degree of latitude, at the equator)
-///    and within D / min(N cos φ) of longitude over that latitude band (all longitudes when the band reaches a pole);
-///    the tree returns every segment whose envelope meets it (both sides of the antimeridian). 3. Each candidate gets
-///    a lower bound, chord(station, end) − (upper bound of the segment's length), which never exceeds the true
-///    geodesic distance (a chord is never longer than the geodesic); candidates are refined in order of that bound
-///    until the bound exceeds the best distance found. 4. Refinement: the segment is straight in longitude/latitude
+/// 1. Candidates: a best-first walk of the NetTopologySuite STR-tree over segment envelopes, nearest boxes first. A box
+///    is skipped only when a rigorous lower bound of the geodesic distance to any point in it is at least the best
+///    distance found so far: every point within geodesic distance D lies within D / 110 574 m of latitude (the
+///    shortest metres per degree of latitude, at the equator) and within D / ((π/180)·N(φ)·cos φ) degrees of longitude,
+///    φ being the highest latitude a path shorter than D can reach (no longitude bound when that reaches a pole); both
+///    sides of the antimeridian are searched. So the true nearest segment is never missed. 2. Each segment gets a lower
+///    bound, chord(station, end) − (upper bound of the segment's length), which never exceeds the true geodesic
+///    distance (a chord is never longer than the geodesic); it is refined only when that bound is below the best so
+///    far. 3. Refinement: the segment is straight in longitude/latitude
 ///    (RFC 7946); the geodesic distance (Vincenty / Karney guard, <see cref="Geodesic"/>) from the station to the point at
 ///    fraction t is minimised over t ∈ [0, 1] by golden-section search to 1e-9 of the segment.
 /// </remarks>
@@ -39,90 +40,62 @@ internal static class CoastDistance
 
         lon = Math.IEEERemainder(lon, 360);
         var segs = coast.Segments;
+        var tree = coast.Flat;
         Span<double> s = stackalloc double[3];
         Ecef.ToEcef(lat, lon, s);
-
-        // 1. An upper bound from a small window.
+        var parallelHere = MetresPerDegreeLongitude(lat);
         var best = double.PositiveInfinity;
-        var r = 0.02;
-        List<int> found = [];
-        while (found.Count == 0)
-        {
-            Query(coast, lat, lon, r, r / Math.Max(0.05, Math.Cos(lat * Math.PI / 180)), found);
-            if (found.Count == 0)
-            {
-                if (r > 200)
-                {
-                    return new CoastHit(double.NaN, double.NaN, double.NaN, double.NaN);
-                }
-
-                r *= 4;
-            }
-        }
-
-        var nearestEnd = -1;
-        var nearestChord = double.PositiveInfinity;
-        foreach (var i in found)
-        {
-            var c = Math.Min(Chord(s, segs.Ecef1, i), Chord(s, segs.Ecef2, i));
-            if (c < nearestChord)
-            {
-                nearestChord = c;
-                nearestEnd = i;
-            }
-        }
-
-        best = Math.Min(
-            Geodesic.Distance(lat, lon, segs.Lat1[nearestEnd], segs.Lon1[nearestEnd]),
-            Geodesic.Distance(lat, lon, segs.Lat2[nearestEnd], segs.Lon2[nearestEnd]));
-
-        // 2. Every segment that can hold a point within `best`.
-        var d = (best * 1.000001) + 1e-6;
-        var dLat = d / MinMetresPerDegreeLatitude;
-        var north = lat + dLat;
-        var south = lat - dLat;
-        double dLon;
-        if (north >= 90 || south <= -90)
-        {
-            dLon = 400;
-        }
-        else
-        {
-            var maxAbs = Math.Max(Math.Abs(north), Math.Abs(south));
-            var perDeg = MetresPerDegreeLongitude(maxAbs) * 0.999999;
-            dLon = d / perDeg;
-        }
-
-        found.Clear();
-        Query(coast, lat, lon, dLat, dLon, found);
-
-        // 3. Lower bounds, then refinement in order.
-        var bounds = new (double Bound, int Index)[found.Count];
-        for (var k = 0; k < found.Count; k++)
-        {
-            var i = found[k];
-            var lb = Math.Max(Chord(s, segs.Ecef1, i), Chord(s, segs.Ecef2, i)) - segs.LengthBoundM[i];
-            bounds[k] = (Math.Max(0, lb), i);
-        }
-
-        Array.Sort(bounds, (a, b) => a.Bound != b.Bound ? a.Bound.CompareTo(b.Bound) : a.Index.CompareTo(b.Index));
         var bestLat = double.NaN;
         var bestLon = double.NaN;
-        best = double.PositiveInfinity;
-        foreach (var (bound, i) in bounds)
+        var bestIndex = int.MaxValue;
+        var queue = new PriorityQueue<int, double>();
+        queue.Enqueue(0, 0);
+        while (queue.TryDequeue(out var node, out _))
         {
-            if (bound > best)
+            if (CannotHold(tree.Env, node, lat, lon, best))
             {
-                break;
+                continue;
             }
 
-            var (dist, plat, plon) = Refine(lat, lon, segs.Lat1[i], segs.Lon1[i], segs.Lat2[i], segs.Lon2[i]);
-            if (dist < best)
+            var first = tree.First[node];
+            var count = tree.Count[node];
+            if (!tree.Leaf[node])
             {
-                best = dist;
-                bestLat = plat;
-                bestLon = plon;
+                for (var k = 0; k < count; k++)
+                {
+                    var child = tree.Children[first + k];
+                    if (!CannotHold(tree.Env, child, lat, lon, best))
+                    {
+                        queue.Enqueue(child, Estimate(tree.Env, child, lat, lon, parallelHere));
+                    }
+                }
+
+                continue;
             }
+
+            for (var k = 0; k < count; k++)
+            {
+                var i = tree.Children[first + k];
+                var lb = Math.Max(Chord(s, segs.Ecef1, i), Chord(s, segs.Ecef2, i)) - segs.LengthBoundM[i];
+                if (lb > best)
+                {
+                    continue;
+                }
+
+                var (dist, plat, plon) = Refine(lat, lon, segs.Lat1[i], segs.Lon1[i], segs.Lat2[i], segs.Lon2[i]);
+                if (dist < best || (dist == best && i < bestIndex))
+                {
+                    best = dist;
+                    bestLat = plat;
+                    bestLon = plon;
+                    bestIndex = i;
+                }
+            }
+        }
+
+        if (double.IsPositiveInfinity(best))
+        {
+            return new CoastHit(double.NaN, double.NaN, double.NaN, double.NaN);
         }
 
         var azimuth = double.NaN;
@@ -148,45 +121,63 @@ internal static class CoastDistance
         return new CoastHit(signed, azimuth, bestLon, bestLat);
     }
 
+    /// <summary>
+    /// True when no point of node <paramref name="k"/>'s box can lie within <paramref name="best"/> metres (geodesic) of
+    /// the station. Rigorous: a path to a point of the box spans at least the latitude gap (≥ 110 574 m per degree) and
+    /// the longitude gap, at no more than the metres per degree of longitude of the highest latitude such a path can
+    /// reach while shorter than <paramref name="best"/>.
+    /// </summary>
+    private static bool CannotHold(double[] env, int k, double lat, double lon, double best)
+    {
+        if (double.IsPositiveInfinity(best))
+        {
+            return false;
+        }
+
+        var latGap = Gap(lat, env[(4 * k) + 2], env[(4 * k) + 3]);
+        if (latGap * MinMetresPerDegreeLatitude >= best)
+        {
+            return true;
+        }
+
+        var reach = Math.Abs(lat) + (best / MinMetresPerDegreeLatitude);
+        if (reach >= 90)
+        {
+            return false;
+        }
+
+        var lonGap = LonGap(lon, env[4 * k], env[(4 * k) + 1]);
+        return lonGap * MetresPerDegreeLongitude(reach) * 0.999999 >= best;
+    }
+
+    /// <summary>A cheap estimate of the distance to node k's box, metres: only orders the search.</summary>
+    private static double Estimate(double[] env, int k, double lat, double lon, double parallelHere)
+    {
+        var a = Gap(lat, env[(4 * k) + 2], env[(4 * k) + 3]) * MinMetresPerDegreeLatitude;
+        var b = LonGap(lon, env[4 * k], env[(4 * k) + 1]) * parallelHere;
+        return Math.Sqrt((a * a) + (b * b));
+    }
+
+    private static double Gap(double v, double lo, double hi) => v < lo ? lo - v : v > hi ? v - hi : 0;
+
+    private static double LonGap(double lon, double lo, double hi)
+    {
+        if (hi - lo >= 360)
+        {
+            return 0;
+        }
+
+        var g = double.PositiveInfinity;
+        for (var shift = -360.0; shift <= 360.0; shift += 360.0)
+        {
+            g = Math.Min(g, Gap(lon + shift, lo, hi));
+        }
+
+        return g;
+    }
+
     /// <summary>WGS 84 metres per degree of longitude at latitude φ: (π/180)·N(φ)·cos φ.</summary>
     internal static double MetresPerDegreeLongitude(double latDeg) => Surface.TerrainMetrics.MetresPerDegree(latDeg).EastM;
-
-    private static void Query(CoastGeometry coast, double lat, double lon, double dLat, double dLon, List<int> into)
-    {
-        var south = Math.Max(-90, lat - dLat);
-        var north = Math.Min(90, lat + dLat);
-        if (dLon >= 180)
-        {
-            into.AddRange(coast.Index.Query(new Envelope(-540, 540, south, north)));
-            return;
-        }
-
-        into.AddRange(coast.Index.Query(new Envelope(lon - dLon, lon + dLon, south, north)));
-        if (lon - dLon < -180)
-        {
-            into.AddRange(coast.Index.Query(new Envelope(lon - dLon + 360, 540, south, north)));
-        }
-
-        if (lon + dLon > 180)
-        {
-            into.AddRange(coast.Index.Query(new Envelope(-540, lon + dLon - 360, south, north)));
-        }
-
-        if (into.Count > 1)
-        {
-            into.Sort();
-            var w = 1;
-            for (var k = 1; k < into.Count; k++)
-            {
-                if (into[k] != into[w - 1])
-                {
-                    into[w++] = into[k];
-                }
-            }
-
-            into.RemoveRange(w, into.Count - w);
-        }
-    }
 
     private static double Chord(ReadOnlySpan<double> s, double[] ends, int i)
     {

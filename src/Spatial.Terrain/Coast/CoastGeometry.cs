@@ -101,7 +101,7 @@ public sealed class CoastGeometry
         }
 
         Segments = new SegmentSet(lon1.ToArray(), lat1.ToArray(), lon2.ToArray(), lat2.ToArray());
-        var tree = new STRtree<int>();
+        var tree = new CoastTree();
         for (var i = 0; i < Segments.Count; i++)
         {
             tree.Insert(new Envelope(lon1[i], lon2[i], lat1[i], lat2[i]), i);
@@ -109,6 +109,7 @@ public sealed class CoastGeometry
 
         tree.Build();
         Index = tree;
+        Flat = FlatTree.From(tree.RootNode);
         if (polygons.Count > 0)
         {
             var land = geometry.Factory.CreateMultiPolygon(polygons.ToArray());
@@ -129,6 +130,8 @@ public sealed class CoastGeometry
     internal SegmentSet Segments { get; }
 
     internal STRtree<int> Index { get; }
+
+    internal FlatTree Flat { get; }
 
     internal MultiPolygon? Land { get; }
 
@@ -198,6 +201,86 @@ public sealed class CoastGeometry
 
         var list = parts.Where(p => p is not null && !p.IsEmpty).Cast<Geometry>().ToArray();
         return list.Length == 0 ? null : new GeometryFactory().CreateGeometryCollection(list);
+    }
+}
+
+/// <summary>NetTopologySuite's STR-tree, with its root node in reach for our own best-first search.</summary>
+internal sealed class CoastTree : STRtree<int>
+{
+    public AbstractNode<Envelope, int> RootNode => Root;
+}
+
+/// <summary>
+/// The STR-tree's nodes copied into flat arrays (envelopes in degrees; for each node its children: nodes, or segment
+/// indices at the leaf level), so the search walks arrays instead of objects.
+/// </summary>
+internal sealed class FlatTree
+{
+    private FlatTree(double[] env, int[] first, int[] count, bool[] leaf, int[] children)
+    {
+        Env = env;
+        First = first;
+        Count = count;
+        Leaf = leaf;
+        Children = children;
+    }
+
+    /// <summary>minX, maxX, minY, maxY of node k at 4k…4k+3.</summary>
+    public double[] Env { get; }
+
+    public int[] First { get; }
+
+    public int[] Count { get; }
+
+    /// <summary>True when node k's children are segment indices.</summary>
+    public bool[] Leaf { get; }
+
+    public int[] Children { get; }
+
+    public static FlatTree From(AbstractNode<Envelope, int> root)
+    {
+        var env = new List<double>();
+        var first = new List<int>();
+        var count = new List<int>();
+        var leaf = new List<bool>();
+        var children = new List<int>();
+        var queue = new Queue<(AbstractNode<Envelope, int> Node, int Id)>();
+        var nextId = 1;
+        void Describe(AbstractNode<Envelope, int> n)
+        {
+            var e = n.Bounds ?? new Envelope();
+            env.AddRange([e.MinX, e.MaxX, e.MinY, e.MaxY]);
+            first.Add(0);
+            count.Add(0);
+            leaf.Add(false);
+        }
+
+        Describe(root);
+        queue.Enqueue((root, 0));
+        while (queue.Count > 0)
+        {
+            var (node, id) = queue.Dequeue();
+            first[id] = children.Count;
+            var kids = node.ChildBoundables;
+            count[id] = kids.Count;
+            leaf[id] = kids.Count > 0 && kids[0] is ItemBoundable<Envelope, int>;
+            foreach (var k in kids)
+            {
+                if (k is ItemBoundable<Envelope, int> item)
+                {
+                    children.Add(item.Item);
+                }
+                else if (k is AbstractNode<Envelope, int> child)
+                {
+                    Describe(child);
+                    children.Add(nextId);
+                    queue.Enqueue((child, nextId));
+                    nextId++;
+                }
+            }
+        }
+
+        return new FlatTree(env.ToArray(), first.ToArray(), count.ToArray(), leaf.ToArray(), children.ToArray());
     }
 }
 
