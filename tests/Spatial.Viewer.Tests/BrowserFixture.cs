@@ -33,6 +33,7 @@ public sealed class BrowserFixture : IAsyncLifetime
             return;
         }
 
+        Assertions.SetDefaultExpectTimeout(20_000); // a loaded CI machine may be slow to redraw
         playwright = await Playwright.CreateAsync();
         profile = TestData.NewScratchFolder("chromium-profile");
         Context = await playwright.Chromium.LaunchPersistentContextAsync(profile, new BrowserTypeLaunchPersistentContextOptions

@@ -38,9 +38,9 @@
     LUT[name] = table;
   }
   function colourScale(variable, values) {
-    const finite = values.filter((v) => v !== null && Number.isFinite(v));
-    let lo = Math.min(...finite), hi = Math.max(...finite);
-    if (!finite.length) { lo = 0; hi = 1; }
+    let lo = Infinity, hi = -Infinity;
+    for (const v of values) if (v !== null && Number.isFinite(v)) { if (v < lo) lo = v; if (v > hi) hi = v; }
+    if (lo > hi) { lo = 0; hi = 1; }
     const diverging = variable && variable.scale === 'diverging';
     if (diverging) { const m = Math.max(Math.abs(lo), Math.abs(hi)) || 1; lo = -m; hi = m; }
     if (hi === lo) { hi = lo + 1; }
