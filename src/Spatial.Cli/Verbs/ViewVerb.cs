@@ -68,9 +68,30 @@ internal static class ViewVerb
     /// the viewer once that stage is merged. Until then the panel shows the mean and the reconstruction only,
     /// and says so on the page.
     /// </summary>
+    /// <summary>
+    /// The observed daily curves for the station panel, from the results folder's season matrix (read once, on the
+    /// first request, through the records stage's reader); null when the folder has no matrix.
+    /// </summary>
     private static Func<StationId, int, float[]?>? ObservedCurves(string folder)
     {
-        _ = folder;
-        return null;
+        var path = Path.Combine(folder, Spatial.Core.IO.ResultLayout.SeasonMatrix);
+        if (!File.Exists(path))
+        {
+            return null;
+        }
+
+        var index = new Lazy<(SeasonMatrix Matrix, Dictionary<(StationId, int), int> Rows)>(() =>
+        {
+            var matrix = Spatial.Records.SeasonMatrixFile.Read(path);
+            var rows = new Dictionary<(StationId, int), int>(matrix.Rows);
+            for (var i = 0; i < matrix.Rows; i++)
+            {
+                rows[(matrix.Keys[i].Station, matrix.Keys[i].Season)] = i;
+            }
+
+            return (matrix, rows);
+        }, LazyThreadSafetyMode.ExecutionAndPublication);
+        return (station, season) =>
+            index.Value.Rows.TryGetValue((station, season), out var row) ? index.Value.Matrix.Row(row).ToArray() : null;
     }
 }
