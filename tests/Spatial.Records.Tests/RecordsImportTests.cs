@@ -363,6 +363,17 @@ public sealed class RecordsImportTests : IDisposable
     }
 
     [Fact]
+    public void A_utf16_file_with_its_byte_order_mark_is_read()
+    {
+        var path = Path.Combine(folder, "r16.csv");
+        File.WriteAllText(path, "station,date,depth\nA,2001-01-01,11\n", Encoding.Unicode);
+
+        var r = RecordsImport.Run(new ImportOptions(path, WriteFile("s.csv", TwoStations)));
+
+        Assert.Equal(11f, Depth(r, "A", new(2001, 1, 1)));
+    }
+
+    [Fact]
     public void A_gzip_file_reads_to_the_same_matrix_as_the_plain_file()
     {
         var text = "station,date,depth\n" + Days("A", new(2001, 1, 1), "1", "2", "3") + Days("B", new(2001, 1, 1), "4", "", "6");
