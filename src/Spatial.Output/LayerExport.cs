@@ -70,6 +70,12 @@ public static class LayerExport
         ArgumentOutOfRangeException.ThrowIfGreaterThan(options.Precision, 15);
         var notes = new List<string>();
         var layers = BuildLayers(folder, options, notes);
+        if (options.Dem is { } demToCheck)
+        {
+            // Refuse an unusable DEM before any file is written (nothing half-written).
+            _ = CrsTransform.For(demToCheck.Crs, "DEM");
+        }
+
         var files = new List<string>();
         var dir = options.OutDir;
         Directory.CreateDirectory(dir);

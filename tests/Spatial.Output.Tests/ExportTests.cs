@@ -139,6 +139,18 @@ public sealed class ExportTests
     }
 
     [Fact]
+    public void A_DEM_in_an_unsupported_CRS_is_refused_before_any_file_is_written()
+    {
+        var dem = Fixtures.ConeDem();
+        var odd = new RasterGrid(dem.Width, dem.Height, dem.Transform, CrsDefinition.FromEpsg(27700), dem.Values.ToArray(), dem.NoData);
+        var dir = TestData.NewScratchFolder("export-bad-dem");
+        var e = Assert.Throws<SpatialDataException>(() => LayerExport.Write(Fixtures.Results(), new ExportOptions(dir, Dem: odd)));
+        Assert.Contains("EPSG:27700", e.Message, StringComparison.Ordinal);
+        Assert.Empty(Directory.GetFiles(dir));
+        Directory.Delete(dir, true);
+    }
+
+    [Fact]
     public void GeoPackage_has_the_required_identity_tables_and_spatial_index()
     {
         var (_, dir) = Export(LayerFormats.GeoPackage);

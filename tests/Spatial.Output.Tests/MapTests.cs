@@ -18,8 +18,8 @@ public sealed class MapTests
         var doc = XDocument.Parse(svg);
         var texts = doc.Descendants(SvgNs + "text").Select(t => t.Value).ToList();
 
-        // Six stations in the invented folder, each a circle of radius 6.5 (known values) or 5 (unknown).
-        Assert.Equal(6, doc.Descendants(SvgNs + "circle").Count(c => (string?)c.Attribute("r") is "6.5" or "5") - 1);
+        // Six stations in the invented folder, each a circle of radius 6.5 (known value) or 4 (unknown); one more r = 4 in the legend.
+        Assert.Equal(6, doc.Descendants(SvgNs + "circle").Count(c => (string?)c.Attribute("r") is "6.5" or "4") - 1);
         Assert.Contains("mm", texts);
         Assert.Contains("N", texts);
         Assert.Contains(texts, t => t.EndsWith(" km", StringComparison.Ordinal));

@@ -151,7 +151,7 @@ public static class MapRenderer
             }
         }
 
-        // Stations: circles coloured by value, hollow grey where unknown.
+        // Stations: circles coloured by value; a small grey dot where unknown (distinct from a near-zero white).
         var ids = points.Keys.ToArray();
         for (var i = 0; i < ids.Length; i++)
         {
@@ -159,7 +159,7 @@ public static class MapRenderer
             var v = values[i];
             d.Add(double.IsFinite(v)
                 ? new DrawCircle(px, py, 6.5, scale.At(scale.Position(v, min, max)).Hex, "#111111", 1)
-                : new DrawCircle(px, py, 5, "#ffffff", "#777777", 1.5));
+                : new DrawCircle(px, py, 4, "#8c8c8c", "#ffffff", 1));
         }
 
         d.Add(new DrawRect(ox, oy, mapW, mapH, null, "#555555", 1));
@@ -234,7 +234,7 @@ public static class MapRenderer
         }
 
         var ny = by + barH + 26;
-        d.Add(new DrawCircle(x + 8, ny - 4, 5, "#ffffff", "#777777", 1.5));
+        d.Add(new DrawCircle(x + 8, ny - 4, 4, "#8c8c8c", "#ffffff", 1));
         d.Add(new DrawText(x + 20, ny, "no value", 11, Anchor.Start, false));
         d.Add(new DrawText(x, ny + 20, $"scale: {scale.Name}{(scale.Diverging ? ", centred on 0" : string.Empty)}", 11, Anchor.Start, false));
         d.Add(new DrawText(x, ny + 36, $"range {Number(min)} … {Number(max)}", 11, Anchor.Start, false));

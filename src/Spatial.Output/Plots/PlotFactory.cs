@@ -146,7 +146,7 @@ public static class PlotFactory
             line.LineWidth = 1.5f;
         }
 
-        Labels(plot, $"Partial residuals: {response} on {predictor}", predictor.Replace('_', ' '), $"residual + b·{predictor}");
+        Labels(plot, $"Partial residuals: {response} on {predictor}", Internal.Variables.Label(predictor), $"residual + b·{predictor}");
         return Render(plot, $"Partial residuals ({response} on {predictor})", "The effect of one predictor with the others held fixed: points are residuals plus that predictor's fitted part; the line has the fitted slope. Curvature suggests a missing transform.");
     }
 
