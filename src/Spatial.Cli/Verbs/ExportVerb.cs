@@ -13,6 +13,7 @@ internal static class ExportVerb
         var output = new Option<string?>("--out") { Description = "Folder for the layers (default: RESULTS/layers)." };
         var format = new Option<string>("--format") { Description = "Comma-separated formats: geojson, gpkg, csv (default: all three).", DefaultValueFactory = _ => "geojson,gpkg,csv" };
         var precision = new Option<int>("--precision") { Description = "Decimals of GeoJSON coordinates, 0–15 (default 6, about 0.1 m).", DefaultValueFactory = _ => 6 };
+        var demOption = new Option<string?>("--dem") { Description = "DEM (GeoTIFF or ASCII grid) for the hillshade (default: the DEM that covariates used, when it still exists)." };
         var coast = new Option<string?>("--coast") { Description = "Coastline GeoJSON (WGS 84) to export instead of the one in the results folder." };
         var cmd = new Command("export", "Export results as GIS layers: stations, seasons, coastline and surface footprints as GeoJSON (RFC 7946), one GeoPackage and CSV.");
         cmd.Arguments.Add(results);
@@ -20,6 +21,7 @@ internal static class ExportVerb
         cmd.Options.Add(format);
         cmd.Options.Add(precision);
         cmd.Options.Add(coast);
+        cmd.Options.Add(demOption);
         cmd.SetAction(parseResult =>
         {
             var dir = parseResult.GetValue(results)!;
@@ -39,13 +41,16 @@ internal static class ExportVerb
 
             var json = parseResult.GetValue(CliApp.Json);
             var folder = ResultsFolder.Open(dir);
-            var result = CliOutput.WithProgress(env, json, "export", _ => LayerExport.Write(folder, new ExportOptions(outDir, formats, digits, coastPath)));
+            var dem = Workflow.RasterInputs.Dem(dir, parseResult.GetValue(demOption));
+            var surfaces = Workflow.RasterInputs.Surfaces(folder);
+            var result = CliOutput.WithProgress(env, json, "export", _ => LayerExport.Write(folder, new ExportOptions(outDir, formats, digits, coastPath, dem.Grid, surfaces)));
             RunManifest.Record(dir, "export", ReadInputs(dir, coastPath), new Dictionary<string, string?>
             {
                 ["out"] = outDir,
                 ["format"] = parseResult.GetValue(format),
                 ["precision"] = digits.ToString(System.Globalization.CultureInfo.InvariantCulture),
                 ["coast"] = coastPath,
+                ["dem"] = dem.Path,
             });
             if (json)
             {

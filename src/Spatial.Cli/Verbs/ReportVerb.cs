@@ -13,6 +13,7 @@ internal static class ReportVerb
         var results = new Argument<string>("results") { Description = "Results folder written by import, fit, covariates and regress." };
         var output = new Option<string?>("--out") { Description = "The HTML file to write (default: RESULTS/report.html)." };
         var title = new Option<string?>("--title") { Description = "Title of the report (default: from the folder name)." };
+        var demOption = new Option<string?>("--dem") { Description = "DEM (GeoTIFF or ASCII grid) for the hillshade (default: the DEM that covariates used, when it still exists)." };
         var coast = new Option<string?>("--coast") { Description = "Coastline GeoJSON (WGS 84) for the maps instead of the one in the results folder." };
         var figures = new Option<string?>("--figures") { Description = "Also write every map (SVG, PNG) and plot (PNG, SVG) of the report into this folder (e.g. RESULTS/figures)." };
         var cmd = new Command("report", "Write one self-contained HTML report (no network access needed) of a results folder, for screen and print.");
@@ -20,6 +21,7 @@ internal static class ReportVerb
         cmd.Options.Add(output);
         cmd.Options.Add(title);
         cmd.Options.Add(coast);
+        cmd.Options.Add(demOption);
         cmd.Options.Add(figures);
         cmd.SetAction(parseResult =>
         {
@@ -33,13 +35,17 @@ internal static class ReportVerb
 
             var json = parseResult.GetValue(CliApp.Json);
             var folder = ResultsFolder.Open(dir);
-            var result = CliOutput.WithProgress(env, json, "report", _ => ReportBuilder.Write(folder, outPath, new ReportOptions(parseResult.GetValue(title), CoastPath: coastPath, FiguresDir: parseResult.GetValue(figures))));
+            var dem = Workflow.RasterInputs.Dem(dir, parseResult.GetValue(demOption));
+            var surfaces = Workflow.RasterInputs.Surfaces(folder);
+            var reconstructions = Workflow.RasterInputs.Reconstructions(dir);
+            var result = CliOutput.WithProgress(env, json, "report", _ => ReportBuilder.Write(folder, outPath, new ReportOptions(parseResult.GetValue(title), dem.Grid, surfaces, reconstructions, coastPath, parseResult.GetValue(figures))));
             var inputs = ExportVerb.ReadInputs(dir, coastPath).Append(Path.Combine(dir, ResultLayout.Manifest)).ToArray();
             RunManifest.Record(dir, "report", inputs, new Dictionary<string, string?>
             {
                 ["out"] = outPath,
                 ["title"] = parseResult.GetValue(title),
                 ["coast"] = coastPath,
+                ["dem"] = dem.Path,
                 ["figures"] = parseResult.GetValue(figures),
             });
             if (json)
