@@ -1,0 +1,36 @@
+using Spatial.Core;
+
+namespace Spatial.Fitting.Internal;
+
+/// <summary>Projects every row of a matrix onto a basis and computes its metrics, in parallel; each row is independent, so the result does not depend on the thread count.</summary>
+internal static class Scoring
+{
+    public static SeasonScores Score(SeasonMatrix matrix, GappyProjector projector, MetricOptions metricOptions, ParallelOptions po, Action<double>? progress)
+    {
+        var k = projector.K;
+        var rows = matrix.Rows;
+        var coefficients = new double[(long)rows * k];
+        var residuals = new double[(long)rows * (k + 1)];
+        var metrics = new SeasonMetrics[rows];
+        var chunks = Layout.Chunks(rows);
+        var memory = matrix.DepthsMemory;
+        long done = 0;
+        Parallel.For(0, chunks.Length, po, c =>
+        {
+            var scratch = new double[projector.ScratchLength];
+            var state = new byte[Layout.Days];
+            var bridged = new bool[Layout.Days];
+            var span = memory.Span;
+            for (var r = chunks[c].Start; r < chunks[c].End; r++)
+            {
+                var row = span.Slice(r * Layout.Days, Layout.Days);
+                projector.Project(row, coefficients.AsSpan(r * k, k), residuals.AsSpan(r * (k + 1), k + 1), scratch);
+                metrics[r] = MetricCalculator.Compute(row, metricOptions, state, bridged);
+            }
+
+            var total = Interlocked.Add(ref done, chunks[c].End - chunks[c].Start);
+            progress?.Invoke((double)total / rows);
+        });
+        return new SeasonScores(matrix.Keys, k, coefficients, residuals, metrics);
+    }
+}

@@ -1,0 +1,64 @@
+namespace Spatial.Fitting.Internal;
+
+/// <summary>Per-station median, IQR, Mann–Kendall and Sen's slope of every coefficient and metric over the training seasons.</summary>
+internal static class StationSummaries
+{
+    public static StationSummary[] Build(SeasonScores scores, int[] train, ParallelOptions po)
+    {
+        var groups = new List<(int Start, int End)>();
+        for (var i = 0; i < train.Length;)
+        {
+            var j = i;
+            while (j < train.Length && scores.Keys[train[j]].Station == scores.Keys[train[i]].Station)
+            {
+                j++;
+            }
+
+            groups.Add((i, j));
+            i = j;
+        }
+
+        var names = Names(scores.K);
+        var result = new StationSummary[groups.Count];
+        Parallel.For(0, groups.Count, po, g =>
+        {
+            var (start, end) = groups[g];
+            var stats = new SummaryStatistic[names.Length];
+            for (var q = 0; q < names.Length; q++)
+            {
+                var xs = new List<double>();
+                var ys = new List<double>();
+                for (var t = start; t < end; t++)
+                {
+                    var r = train[t];
+                    var v = q < scores.K ? scores.Coefficient(r, q) : scores.Metrics(r)[q - scores.K];
+                    if (double.IsFinite(v))
+                    {
+                        xs.Add(scores.Keys[r].Season);
+                        ys.Add(v);
+                    }
+                }
+
+                stats[q] = Summarise(names[q], xs.ToArray(), ys.ToArray());
+            }
+
+            result[g] = new StationSummary(scores.Keys[train[start]].Station, end - start, stats);
+        });
+        return result;
+    }
+
+    /// <summary>c1…cK then the metric names.</summary>
+    public static string[] Names(int k) =>
+        [.. Enumerable.Range(1, k).Select(c => $"c{c}"), .. SeasonMetrics.Names];
+
+    internal static SummaryStatistic Summarise(string name, double[] x, double[] y)
+    {
+        var sorted = (double[])y.Clone();
+        Array.Sort(sorted);
+        var median = Trend.Quantile(sorted, 0.5);
+        var iqr = sorted.Length > 0 ? Trend.Quantile(sorted, 0.75) - Trend.Quantile(sorted, 0.25) : double.NaN;
+        var mk = Trend.MannKendall(x, y);
+        var sen = Trend.SenSlope(x, y) * 10.0;
+        return new SummaryStatistic(name, y.Length, median, iqr, mk.S, mk.Z, mk.PTwoSided, sen);
+    }
+}

@@ -1,0 +1,177 @@
+using MathNet.Numerics;
+
+namespace Spatial.Fitting.Internal;
+
+/// <summary>Result of the Mann–Kendall test.</summary>
+internal readonly record struct MannKendallResult(int N, double S, double VarianceS, double Z, double PTwoSided);
+
+/// <summary>Mann–Kendall trend test with the tie correction, Sen's slope, and sample quantiles.</summary>
+/// <remarks>
+/// Mann (1945), Kendall (1975); formulas as in Gilbert (1987, ch. 16): S = Σ_{i&lt;j} sign(y_j − y_i) with x ascending;
+/// Var(S) = [n(n−1)(2n+5) − Σ_t t(t−1)(2t+5)]/18 over groups of tied y; Z = (S − 1)/√Var for S &gt; 0,
+/// (S + 1)/√Var for S &lt; 0, 0 for S = 0; p = 2(1 − Φ(|Z|)). Sen (1968): median of the pairwise slopes
+/// (y_j − y_i)/(x_j − x_i) over pairs with x_j ≠ x_i. Fewer than 3 values: everything NaN.
+/// </remarks>
+internal static class Trend
+{
+    public static MannKendallResult MannKendall(ReadOnlySpan<double> x, ReadOnlySpan<double> y)
+    {
+        var n = y.Length;
+        if (n < 3)
+        {
+            return new MannKendallResult(n, double.NaN, double.NaN, double.NaN, double.NaN);
+        }
+
+        var order = SortedOrder(x);
+        long s = 0;
+        for (var i = 0; i < n; i++)
+        {
+            for (var j = i + 1; j < n; j++)
+            {
+                var dx = x[order[j]] - x[order[i]];
+                if (dx == 0)
+                {
+                    continue;
+                }
+
+                s += Math.Sign(y[order[j]] - y[order[i]]);
+            }
+        }
+
+        var sorted = y.ToArray();
+        Array.Sort(sorted);
+        double ties = 0;
+        for (var i = 0; i < n;)
+        {
+            var j = i;
+            while (j < n && sorted[j] == sorted[i])
+            {
+                j++;
+            }
+
+            double t = j - i;
+            if (t > 1)
+            {
+                ties += t * (t - 1) * ((2 * t) + 5);
+            }
+
+            i = j;
+        }
+
+        var variance = ((n * (n - 1.0) * ((2.0 * n) + 5)) - ties) / 18.0;
+        var z = s > 0 ? (s - 1) / Math.Sqrt(variance) : s < 0 ? (s + 1) / Math.Sqrt(variance) : 0.0;
+        var p = variance > 0 ? SpecialFunctions.Erfc(Math.Abs(z) / Math.Sqrt(2.0)) : double.NaN;
+        return new MannKendallResult(n, s, variance, variance > 0 ? z : double.NaN, p);
+    }
+
+    /// <summary>Sen's slope (median pairwise slope), y units per x unit; NaN with fewer than 3 values or no pair with distinct x.</summary>
+    public static double SenSlope(ReadOnlySpan<double> x, ReadOnlySpan<double> y)
+    {
+        var n = y.Length;
+        if (n < 3)
+        {
+            return double.NaN;
+        }
+
+        var slopes = new double[n * (n - 1) / 2];
+        var m = 0;
+        for (var i = 0; i < n; i++)
+        {
+            for (var j = i + 1; j < n; j++)
+            {
+                var dx = x[j] - x[i];
+                if (dx != 0)
+                {
+                    slopes[m++] = (y[j] - y[i]) / dx;
+                }
+            }
+        }
+
+        if (m == 0)
+        {
+            return double.NaN;
+        }
+
+        var span = slopes.AsSpan(0, m);
+        var upper = Select(span, m / 2);
+        return m % 2 == 1 ? upper : 0.5 * (Max(span[..(m / 2)]) + upper);
+    }
+
+    /// <summary>The value of rank <paramref name="rank"/> (0-based) of <paramref name="v"/>, which is reordered so that v[..rank] ≤ v[rank] (Hoare's selection).</summary>
+    internal static double Select(Span<double> v, int rank)
+    {
+        int lo = 0, hi = v.Length - 1;
+        while (lo < hi)
+        {
+            var pivot = v[lo + ((hi - lo) / 2)];
+            int i = lo, j = hi;
+            while (i <= j)
+            {
+                while (v[i] < pivot)
+                {
+                    i++;
+                }
+
+                while (v[j] > pivot)
+                {
+                    j--;
+                }
+
+                if (i <= j)
+                {
+                    (v[i], v[j]) = (v[j], v[i]);
+                    i++;
+                    j--;
+                }
+            }
+
+            if (rank <= j)
+            {
+                hi = j;
+            }
+            else if (rank >= i)
+            {
+                lo = i;
+            }
+            else
+            {
+                break;
+            }
+        }
+
+        return v[rank];
+    }
+
+    private static double Max(ReadOnlySpan<double> v)
+    {
+        var m = double.NegativeInfinity;
+        foreach (var x in v)
+        {
+            m = Math.Max(m, x);
+        }
+
+        return m;
+    }
+
+    /// <summary>Quantile of sorted values by linear interpolation between order statistics (Hyndman &amp; Fan 1996 type 7, numpy's default); NaN when empty.</summary>
+    public static double Quantile(ReadOnlySpan<double> sorted, double probability)
+    {
+        if (sorted.Length == 0)
+        {
+            return double.NaN;
+        }
+
+        var h = (sorted.Length - 1) * probability;
+        var lo = (int)Math.Floor(h);
+        var hi = Math.Min(lo + 1, sorted.Length - 1);
+        return sorted[lo] + ((h - lo) * (sorted[hi] - sorted[lo]));
+    }
+
+    private static int[] SortedOrder(ReadOnlySpan<double> x)
+    {
+        var copy = x.ToArray();
+        var order = Enumerable.Range(0, x.Length).ToArray();
+        Array.Sort(copy, order);
+        return order;
+    }
+}

@@ -1,0 +1,127 @@
+using Spatial.Core;
+
+namespace Spatial.Scenario.Internal;
+
+/// <summary>
+/// The weather shared by the whole island, one value per calendar day from 1 September of the first season to
+/// 31 August after the last (29 February included: the weather goes on; the season calendar drops that day): the
+/// regional year-to-year and day-to-day temperature anomalies (AR(1)), the warming trend, and the regional wet/dry
+/// Markov chain with gamma-distributed unit amounts. Stations add their own climate and local noise.
+/// </summary>
+internal sealed class RegionalWeather
+{
+    private RegionalWeather(int firstSeason, int seasons, DateOnly[] dates, int[] seasonIndex, int[] seasonDay, double[] cosDoy, double[] sinDoy, double[] anomalyC, bool[] wet, double[] unitAmount)
+    {
+        FirstSeason = firstSeason;
+        Seasons = seasons;
+        Dates = dates;
+        SeasonIndex = seasonIndex;
+        SeasonDay = seasonDay;
+        CosDoy = cosDoy;
+        SinDoy = sinDoy;
+        AnomalyC = anomalyC;
+        Wet = wet;
+        UnitAmount = unitAmount;
+    }
+
+    /// <summary>The first season (calendar year in which it starts).</summary>
+    public int FirstSeason { get; }
+
+    /// <summary>Number of seasons.</summary>
+    public int Seasons { get; }
+
+    /// <summary>Calendar date of each day.</summary>
+    public DateOnly[] Dates { get; }
+
+    /// <summary>Season index (0-based) of each day.</summary>
+    public int[] SeasonIndex { get; }
+
+    /// <summary>Season day 0…364 of each day, −1 for 29 February (dropped by <see cref="SeasonCalendar"/>).</summary>
+    public int[] SeasonDay { get; }
+
+    /// <summary>cos(2π·doy/365) of each day (doy 0-based in a 365-day year; 29 February takes 28 February's).</summary>
+    public double[] CosDoy { get; }
+
+    /// <summary>sin(2π·doy/365) of each day.</summary>
+    public double[] SinDoy { get; }
+
+    /// <summary>Regional temperature anomaly of each day (year-to-year + day-to-day + warming trend), °C.</summary>
+    public double[] AnomalyC { get; }
+
+    /// <summary>True on regionally wet days.</summary>
+    public bool[] Wet { get; }
+
+    /// <summary>Regional wet-day amount relative to the mean (unit-mean gamma × seasonal factor); 0 on dry days.</summary>
+    public double[] UnitAmount { get; }
+
+    /// <summary>Number of days.</summary>
+    public int Days => Dates.Length;
+
+    /// <summary>Generates the regional weather for <paramref name="seasons"/> seasons from <paramref name="firstSeason"/>.</summary>
+    public static RegionalWeather Generate(int firstSeason, int seasons, ulong seed)
+    {
+        var calendar = SeasonCalendar.Default;
+        var start = new DateOnly(firstSeason, 9, 1);
+        var end = new DateOnly(firstSeason + seasons, 8, 31);
+        var n = end.DayNumber - start.DayNumber + 1;
+        var dates = new DateOnly[n];
+        var seasonIndex = new int[n];
+        var seasonDay = new int[n];
+        var cos = new double[n];
+        var sin = new double[n];
+        var anomaly = new double[n];
+        var wet = new bool[n];
+        var amount = new double[n];
+
+        var rng = new Rng(Rng.Derive(seed, 0x5745415448UL)); // "WEATH"
+        var yearAnomaly = new double[seasons];
+        var ya = rng.Normal() * Climate.YearAnomalySdC;
+        for (var s = 0; s < seasons; s++)
+        {
+            yearAnomaly[s] = ya;
+            ya = (Climate.YearAnomalyAr * ya) + (Math.Sqrt(1 - (Climate.YearAnomalyAr * Climate.YearAnomalyAr)) * Climate.YearAnomalySdC * rng.Normal());
+        }
+
+        var daily = rng.Normal() * Climate.DailyAnomalySdC;
+        var dailyInnovation = Math.Sqrt(1 - (Climate.DailyAnomalyAr * Climate.DailyAnomalyAr)) * Climate.DailyAnomalySdC;
+        var wasWet = false;
+        var midYears = seasons / 2.0;
+        for (var t = 0; t < n; t++)
+        {
+            var date = start.AddDays(t);
+            dates[t] = date;
+            var leapDay = !calendar.TryLocate(date, out var season, out var day);
+            if (leapDay)
+            {
+                calendar.TryLocate(date.AddDays(-1), out season, out _);
+                day = -1;
+            }
+
+            var s = season - firstSeason;
+            seasonIndex[t] = s;
+            seasonDay[t] = day;
+            var doy = leapDay ? 58 : date.DayOfYear - 1 - (DateTime.IsLeapYear(date.Year) && date.Month > 2 ? 1 : 0);
+            var angle = 2 * Math.PI * doy / 365.0;
+            cos[t] = Math.Cos(angle);
+            sin[t] = Math.Sin(angle);
+
+            var seasonDayForTrend = leapDay ? 180 : day;
+            var years = s + ((seasonDayForTrend + 0.5) / SeasonCalendar.DaysPerSeason) - midYears;
+            anomaly[t] = yearAnomaly[s] + daily + (Climate.WarmingCPerDecade * years / 10);
+            daily = (Climate.DailyAnomalyAr * daily) + (dailyInnovation * rng.Normal());
+
+            // Wetter winters: the cosine peaks in mid-January (doy 15).
+            var winter = Math.Cos(2 * Math.PI * (doy - 15) / 365.0);
+            var p = wasWet
+                ? Math.Min(0.95, Climate.WetAfterWet * (1 + (Climate.WetSeasonality * winter)))
+                : Math.Min(0.95, Climate.WetAfterDry * (1 + (Climate.WetSeasonality * winter)));
+            var u = rng.NextDouble();
+            var g = rng.Gamma(Climate.AmountShape) / Climate.AmountShape;
+            wasWet = u < p;
+            wet[t] = wasWet;
+            amount[t] = wasWet ? g * (1 + (Climate.AmountSeasonality * winter)) : 0;
+        }
+
+        return new RegionalWeather(firstSeason, seasons, dates, seasonIndex, seasonDay, cos, sin, anomaly, wet, amount);
+    }
+}

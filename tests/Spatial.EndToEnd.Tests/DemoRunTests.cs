@@ -1,0 +1,123 @@
+using System.Text.Json.Nodes;
+using Spatial.Cli;
+using Spatial.Testing;
+using Xunit;
+
+namespace Spatial.EndToEnd.Tests;
+
+/// <summary>
+/// Runs <c>spatial demo</c> once (the whole pipeline on the invented region) and checks what a user hands on,
+/// against the generator's ground truth in <c>truth.json</c> — the only values here not computed by the code
+/// under test are the generator's noise-free effects.
+/// </summary>
+public sealed class DemoRunFixture : IDisposable
+{
+    public DemoRunFixture()
+    {
+        Root = TestData.NewScratchFolder("demo");
+        using var output = new StringWriter();
+        using var error = new StringWriter();
+        ExitCode = CliApp.Run(["demo", "--out", Root, "--json"], CliEnv.ForWriters(output, error));
+        StdOut = output.ToString();
+        StdErr = error.ToString();
+    }
+
+    public string Root { get; }
+
+    public int ExitCode { get; }
+
+    public string StdOut { get; }
+
+    public string StdErr { get; }
+
+    public string Results => Path.Combine(Root, "results");
+
+    public string Region => Path.Combine(Root, "region");
+
+    public JsonNode Truth => JsonNode.Parse(File.ReadAllText(Path.Combine(Region, "truth.json")))!;
+
+    public JsonNode Regression => JsonNode.Parse(File.ReadAllText(Path.Combine(Results, "regression", "regression.json")))!;
+
+    public void Dispose()
+    {
+        try
+        {
+            Directory.Delete(Root, recursive: true);
+        }
+        catch (IOException)
+        {
+        }
+    }
+}
+
+public sealed class DemoRunTests(DemoRunFixture demo) : IClassFixture<DemoRunFixture>
+{
+    [Fact]
+    public void The_demo_finishes_and_reports_every_output()
+    {
+        Assert.True(demo.ExitCode == ExitCodes.Done, $"demo exit {demo.ExitCode}: {demo.StdErr}");
+        var summary = JsonNode.Parse(demo.StdOut)!;
+        Assert.True(File.Exists(summary["report"]!.GetValue<string>()));
+        foreach (var file in new[] { "matrix.parquet", "quality.json", "basis.json", "seasons.csv", "stations.csv", "covariates.csv", "manifest.json", "report.html" })
+        {
+            Assert.True(File.Exists(Path.Combine(demo.Results, file)), $"missing results/{file}");
+        }
+
+        Assert.True(File.Exists(Path.Combine(demo.Results, "layers", "stations.geojson")));
+        Assert.True(File.Exists(Path.Combine(demo.Results, "layers", "spatial.gpkg")));
+        Assert.NotEmpty(Directory.GetFiles(Path.Combine(demo.Results, "regression"), "predicted_*.tif"));
+    }
+
+    [Fact]
+    public void Given_the_demo_region_when_fitted_then_a_timing_or_duration_component_is_found_beside_amount()
+    {
+        var basis = JsonNode.Parse(File.ReadAllText(Path.Combine(demo.Results, "basis.json")))!;
+        var labels = basis["labels"]!.AsArray().Select(l => l!.GetValue<string>()).ToList();
+
+        Assert.Equal("amount", labels[0]);
+        Assert.True(labels.Contains("timing") || labels.Contains("duration"), $"labels: {string.Join(", ", labels)}");
+    }
+
+    [Theory]
+    [InlineData("median_snow_days", "snow_days")]
+    [InlineData("median_longest_cover_days", "longest_cover_days")]
+    [InlineData("median_peak_depth_mm", "peak_depth_mm")]
+    public void Given_the_demo_region_when_regressed_then_the_elevation_effect_matches_the_generator_truth(string response, string truthMetric)
+    {
+        // Reference: truth.json "effects.ols" — least squares of the generator's noise-free station values on
+        // [1, elevation_km, coast_10km, latitude], written by the scenario generator (not by the regression stage).
+        var truth = demo.Truth["effects"]!["ols"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == truthMetric)!;
+        var model = demo.Regression["models"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == response)!;
+        var elevation = model["coefficients"]!.AsArray().Single(c => c!["name"]!.GetValue<string>() == "elevation_km")!;
+        var expected = truth["elevation_km"]!.GetValue<double>();
+        var low = elevation["ci_low"]!.GetValue<double>();
+        var high = elevation["ci_high"]!.GetValue<double>();
+
+        Assert.True(Math.Sign(expected) == Math.Sign(elevation["estimate"]!.GetValue<double>()), $"{response}: sign differs from truth {expected}");
+        Assert.True(low <= expected && expected <= high, $"{response}: truth {expected} outside the 95 % interval [{low}, {high}]");
+    }
+
+    [Theory]
+    [InlineData("median_snow_days", "snow_days")]
+    [InlineData("median_longest_cover_days", "longest_cover_days")]
+    public void Given_the_demo_region_when_regressed_then_the_coast_effect_agrees_in_sign_with_the_truth(string response, string truthMetric)
+    {
+        // Reference: truth.json "effects.ols" coast_10km (generator's noise-free effect per 10 km inland).
+        var truth = demo.Truth["effects"]!["ols"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == truthMetric)!;
+        var model = demo.Regression["models"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == response)!;
+        var coast = model["coefficients"]!.AsArray().Single(c => c!["name"]!.GetValue<string>() == "coast_10km")!;
+        var expected = truth["coast_10km"]!.GetValue<double>();
+
+        Assert.True(Math.Sign(expected) == Math.Sign(coast["estimate"]!.GetValue<double>()), $"{response}: coast estimate {coast["estimate"]} vs truth {expected}");
+        Assert.True(coast["ci_low"]!.GetValue<double>() <= expected && expected <= coast["ci_high"]!.GetValue<double>(), $"{response}: truth {expected} outside [{coast["ci_low"]}, {coast["ci_high"]}]");
+    }
+
+    [Fact]
+    public void The_report_is_self_contained_and_carries_the_caution()
+    {
+        var html = File.ReadAllText(Path.Combine(demo.Results, "report.html"));
+
+        Assert.DoesNotMatch("(src|href)\\s*=\\s*\"https?:", html);
+        Assert.Contains("do not replace", html, StringComparison.OrdinalIgnoreCase);
+    }
+}

@@ -1,0 +1,117 @@
+using Spatial.Core;
+using Spatial.Testing;
+using Xunit;
+
+namespace Spatial.Fitting.Tests;
+
+/// <summary>Labels, sign orientation, sampling errors and selections on seasons built with a known amount and timing (invented data).</summary>
+public sealed class InterpretationTests
+{
+    /// <summary>Gaussian snowpacks: depth a·exp(−½((d − t)/30)²) with amount a and centre t drawn independently; complete records.</summary>
+    private static (SeasonMatrix Matrix, double[] Amount, double[] Centre) AmountAndTiming(int rows, int seed)
+    {
+        var rng = new Random(seed);
+        var data = new float[rows * 365];
+        var amount = new double[rows];
+        var centre = new double[rows];
+        var keys = new List<SeasonKey>();
+        for (var r = 0; r < rows; r++)
+        {
+            amount[r] = 500 + (150 * Synthetic.Gauss(rng));
+            centre[r] = 180 + (12 * Synthetic.Gauss(rng));
+            for (var d = 0; d < 365; d++)
+            {
+                data[(r * 365) + d] = (float)(amount[r] * Math.Exp(-0.5 * Math.Pow((d - centre[r]) / 30.0, 2)));
+            }
+
+            keys.Add(new SeasonKey(new StationId($"S{r / 10:00}"), 2000 + (r % 10), 365, false));
+        }
+
+        return (new SeasonMatrix(SeasonCalendar.Default, keys, data), amount, centre);
+    }
+
+    private static double Correlation(double[] a, Func<int, double> b)
+    {
+        var n = a.Length;
+        var ma = a.Average();
+        var mb = Enumerable.Range(0, n).Average(b);
+        double sab = 0, saa = 0, sbb = 0;
+        for (var i = 0; i < n; i++)
+        {
+            sab += (a[i] - ma) * (b(i) - mb);
+            saa += (a[i] - ma) * (a[i] - ma);
+            sbb += (b(i) - mb) * (b(i) - mb);
+        }
+
+        return sab / Math.Sqrt(saa * sbb);
+    }
+
+    [Fact]
+    public void Amount_and_timing_components_are_labelled_and_oriented_more_snow_and_earlier_positive()
+    {
+        var (matrix, amount, centre) = AmountAndTiming(300, seed: 5);
+        var fit = SeasonalFit.Fit(matrix, new FitOptions(Components: 3));
+        Assert.Equal("amount", fit.Basis.Labels[0]);
+        Assert.Contains("timing", fit.Basis.Labels);
+        var t = Array.IndexOf(fit.Basis.Labels, "timing");
+        // DESIGN.md sign convention: component 1 positive = more snow; timing positive = earlier season.
+        Assert.True(fit.Basis.Components[0].Sum() > 0);
+        Assert.True(Correlation(amount, r => fit.Seasons.Coefficient(r, 0)) > 0.9);
+        Assert.True(Correlation(centre, r => fit.Seasons.Coefficient(r, t)) < -0.9);
+        var label = fit.Interpretation.Labels[t];
+        Assert.True(label.Correlations["centroid_day"] < 0);
+        Assert.Equal("centroid_day", label.Basis);
+    }
+
+    [Fact]
+    public void North_errors_are_lambda_times_root_2_over_N_star_and_equal_eigenvalues_are_not_separable()
+    {
+        var (matrix, _, _) = AmountAndTiming(200, seed: 6);
+        var fit = SeasonalFit.Fit(matrix, new FitOptions(Components: 4));
+        var b = fit.Basis;
+        Assert.InRange(b.EffectiveSeasons, 2, 200);
+        for (var c = 0; c < 4; c++)
+        {
+            // North et al. (1982), eq. 24: δλ ≈ λ (2/N)^½.
+            Tolerance.Relative(b.Eigenvalues[c] * Math.Sqrt(2 / b.EffectiveSeasons), b.NorthError[c], 1e-12, $"δλ_{c + 1}");
+            var next = c + 1 < 4 ? b.Eigenvalues[c + 1] : fit.AllEigenvalues[4];
+            Assert.Equal(b.Eigenvalues[c] - next > b.NorthError[c], b.SeparableFromNext[c]);
+        }
+    }
+
+    [Fact]
+    public void Selections_only_admit_well_described_seasons_and_sort_them_by_the_component()
+    {
+        var (matrix, _, _) = AmountAndTiming(300, seed: 7);
+        var fit = SeasonalFit.Fit(matrix, new FitOptions(Components: 2, SelectionResidual: 0.5, SelectionCount: 5));
+        var sel = fit.Interpretation.Selections[0];
+        Assert.Equal(5, sel.Highest.Length);
+        Assert.True(sel.Highest.Zip(sel.Highest.Skip(1)).All(p => p.First.Value >= p.Second.Value));
+        Assert.True(sel.Lowest.Zip(sel.Lowest.Skip(1)).All(p => p.First.Value <= p.Second.Value));
+        Assert.All(sel.Highest, s => Assert.True(s.Residual < 0.5));
+        Assert.True(fit.Interpretation.WorstDescribed[0].Residual >= fit.Interpretation.BestDescribed[^1].Residual);
+        Assert.All(fit.Interpretation.WorstDescribed, s => Assert.Contains(s.Cause, new[] { "coverage", "spikes", "flat-line", "shape" }));
+    }
+
+    [Fact]
+    public void Poorly_described_seasons_get_their_likely_cause_flat_line_coverage_spikes_or_shape()
+    {
+        var mean = Synthetic.MeanCurve();
+        var basis = Synthetic.OrthonormalBasis(1, seed: 9);
+        double[] c = [0.0];
+        var stuck = mean.Select(x => (float)x).ToArray();
+        for (var d = 100; d < 200; d++)
+        {
+            stuck[d] = 777f; // a sensor reading a constant for 100 days
+        }
+
+        Assert.Equal("flat-line", Spatial.Fitting.Internal.Interpreter.Diagnose(stuck, mean, basis, c).Cause);
+        var sparse = mean.Select((x, d) => d % 3 == 0 ? (float)x : float.NaN).ToArray();
+        Assert.Equal("coverage", Spatial.Fitting.Internal.Interpreter.Diagnose(sparse, mean, basis, c).Cause);
+        var spiky = mean.Select(x => (float)(x + 1)).ToArray();
+        spiky[150] += 2000f;
+        Assert.Equal("spikes", Spatial.Fitting.Internal.Interpreter.Diagnose(spiky, mean, basis, c).Cause);
+        var shifted = Enumerable.Range(0, 365).Select(d => (float)mean[(d + 40) % 365]).ToArray();
+        Assert.Equal("shape", Spatial.Fitting.Internal.Interpreter.Diagnose(shifted, mean, basis, c).Cause);
+    }
+}

@@ -1,0 +1,103 @@
+using Spatial.Scenario.Internal;
+using Xunit;
+
+namespace Spatial.Scenario.Tests;
+
+/// <summary>Physical sanity of the generator, asserted against its own inputs (Climate constants and standards they cite).</summary>
+public sealed class SnowPhysicsTests
+{
+    private static readonly RegionalWeather Weather = RegionalWeather.Generate(1990, 20, 5);
+
+    private static double MeanOf(PlaceInputs place, Func<SeasonValues, double> metric, double offsetC = 0) =>
+        SeasonMetricsCalc.Compute(SnowSimulator.Simulate(Weather, place, 99, offsetC), Weather).Average(metric);
+
+    [Fact]
+    public void The_lapse_rate_is_that_of_the_standard_atmosphere()
+    {
+        // ISO 2533:1975 (ICAO standard atmosphere): −6.5 K per km in the troposphere.
+        Assert.Equal(-6.5, Climate.AnnualMeanC(1000, 47) - Climate.AnnualMeanC(0, 47), 12);
+    }
+
+    [Fact]
+    public void There_is_no_snow_at_sea_level_in_early_autumn()
+    {
+        // September to mid-October at sea level sits 9–13 °C above the rain/snow threshold in the generator's climate.
+        foreach (var coast in new[] { 0.5, 10.0, 35.0 })
+        {
+            var depth = SnowSimulator.Simulate(Weather, new PlaceInputs(0, coast, 47, 0.5), 3);
+            for (var t = 0; t < Weather.Days; t++)
+            {
+                if (Weather.SeasonDay[t] is >= 0 and <= 45)
+                {
+                    Assert.True(depth[t] == 0, $"{Weather.Dates[t]}: {depth[t]} mm at sea level, {coast} km inland");
+                }
+            }
+        }
+    }
+
+    [Fact]
+    public void Mean_duration_rises_with_elevation()
+    {
+        var previous = -1.0;
+        foreach (var z in new[] { 0.0, 400, 800, 1200, 1600, 2000 })
+        {
+            var duration = MeanOf(new PlaceInputs(z, 20, 47, 0), v => v.Duration);
+            Assert.True(duration > previous, $"duration at {z} m ({duration:F1} d) should exceed that 400 m lower ({previous:F1} d)");
+            previous = duration;
+        }
+    }
+
+    [Fact]
+    public void Seasons_are_shorter_near_the_coast_at_equal_elevation()
+    {
+        foreach (var z in new[] { 500.0, 900, 1300 })
+        {
+            var nearCoast = MeanOf(new PlaceInputs(z, 1, 47, 0), v => v.SnowDays);
+            var inland = MeanOf(new PlaceInputs(z, 30, 47, 0), v => v.SnowDays);
+            Assert.True(nearCoast < inland, $"at {z} m: {nearCoast:F1} snow days 1 km from the sea, {inland:F1} at 30 km");
+        }
+    }
+
+    [Fact]
+    public void The_windward_side_gets_deeper_snow_than_the_lee()
+    {
+        var windward = MeanOf(new PlaceInputs(1200, 20, 47, 1), v => v.Peak);
+        var lee = MeanOf(new PlaceInputs(1200, 20, 47, -1), v => v.Peak);
+        Assert.True(windward > lee, $"peak {windward:F0} mm windward vs {lee:F0} mm lee");
+    }
+
+    [Fact]
+    public void Warming_shortens_the_season()
+    {
+        var place = new PlaceInputs(1000, 20, 47, 0);
+        Assert.True(MeanOf(place, v => v.Duration, 1.0) < MeanOf(place, v => v.Duration, 0.0));
+    }
+
+    [Fact]
+    public void Fresh_snow_is_light_and_the_pack_settles_towards_the_settled_density()
+    {
+        // Depth / SWE = 1000 / density: a first snowfall is near 100 kg/m³ (10 mm of depth per mm SWE); an old pack near
+        // 350 kg/m³ (about 2.9 mm per mm) — both "common practice" figures cited in Climate.
+        Assert.Equal(10.0, Climate.WaterDensity / Climate.FreshDensity, 12);
+        Assert.InRange(Climate.WaterDensity / Climate.SettledDensity, 2.85, 2.86);
+        var depth = SnowSimulator.Simulate(Weather, new PlaceInputs(2100, 25, 47, 0), 8);
+        Assert.True(depth.Max() > 1000, "a high station builds a pack of over a metre");
+        Assert.True(depth.Max() < 8000, "but not an implausible one");
+    }
+
+    [Fact]
+    public void The_same_inputs_and_seed_give_the_same_depths()
+    {
+        var place = new PlaceInputs(800, 12, 47.1, 0.3);
+        Assert.Equal(SnowSimulator.Simulate(Weather, place, 17), SnowSimulator.Simulate(Weather, place, 17));
+    }
+
+    [Fact]
+    public void Twenty_nine_february_is_simulated_but_has_no_season_day()
+    {
+        var leap = Array.FindIndex(Weather.Dates, d => d.Month == 2 && d.Day == 29);
+        Assert.True(leap > 0);
+        Assert.Equal(-1, Weather.SeasonDay[leap]);
+        Assert.Equal(Weather.SeasonDay[leap - 1] + 1, Weather.SeasonDay[leap + 1]);
+    }
+}
