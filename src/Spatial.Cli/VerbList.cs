@@ -13,6 +13,7 @@ internal static class VerbList
         yield return Verbs.ImportVerb.Create(env);
         yield return Verbs.FitVerb.Create(env);
         yield return Verbs.ApplyVerb.Create(env);
+        yield return Verbs.CovariatesVerb.Create(env);
         yield return Verbs.RegressVerb.Create(env);
         yield return Verbs.ExportVerb.Create(env);
         yield return Verbs.ReportVerb.Create(env);

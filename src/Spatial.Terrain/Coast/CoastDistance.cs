@@ -14,12 +14,10 @@ internal readonly record struct CoastHit(double DistanceM, double AzimuthDeg, do
 /// Nearest point of a <see cref="CoastGeometry"/> to a station, exactly on the ellipsoid.
 /// </summary>
 /// <remarks>
-/// 1. Candidates: a best-first walk of the NetTopologySuite STR-tree over segment envelopes, nearest boxes first. A box
-///    is skipped only when a rigorous lower bound of the geodesic distance to any point in it is at least the best
-///    distance found so far: every point within geodesic distance D lies within D / 110 574 m of latitude (the
-///    shortest metres per degree of latitude, at the equator) and within D / ((π/180)·N(φ)·cos φ) degrees of longitude,
-///    φ being the highest latitude a path shorter than D can reach (no longitude bound when that reaches a pole); both
-///    sides of the antimeridian are searched. So the true nearest segment is never missed. 2. Each segment gets a lower
+/// 1. Candidates: a best-first walk of the NetTopologySuite STR-tree over segment envelopes, ordered by a rigorous
+///    lower bound of the geodesic distance to each box (<see cref="BoxBound"/>; longitudes compared across the
+///    antimeridian); the walk stops when the smallest bound left is at least the best distance found, so the true
+///    nearest segment is never missed. 2. Each segment gets a lower
 ///    bound, chord(station, end) − (upper bound of the segment's length), which never exceeds the true geodesic
 ///    distance (a chord is never longer than the geodesic); it is refined only when that bound is below the best so
 ///    far. 3. Refinement: the segment is straight in longitude/latitude
@@ -28,7 +26,10 @@ internal readonly record struct CoastHit(double DistanceM, double AzimuthDeg, do
 /// </remarks>
 internal static class CoastDistance
 {
-    private const double MinMetresPerDegreeLatitude = 110574.0; // GeodSolve: 0.001° of meridian at the equator = 110.574276 m
+    private const double Deg = Math.PI / 180;
+
+    // M_eq = a(1 − e²), the meridian radius of curvature at the equator, the smallest radius of curvature of WGS 84.
+    private const double MinRadiusM = Geodesic.A * (1 - (Geodesic.F * (2 - Geodesic.F)));
     private static readonly double InvPhi = (Math.Sqrt(5) - 1) / 2;
 
     public static CoastHit Nearest(CoastGeometry coast, double lat, double lon)
@@ -43,18 +44,19 @@ internal static class CoastDistance
         var tree = coast.Flat;
         Span<double> s = stackalloc double[3];
         Ecef.ToEcef(lat, lon, s);
-        var parallelHere = MetresPerDegreeLongitude(lat);
+        var latRad = lat * Deg;
+        var (sinLat, cosLat) = Math.SinCos(latRad);
         var best = double.PositiveInfinity;
         var bestLat = double.NaN;
         var bestLon = double.NaN;
         var bestIndex = int.MaxValue;
         var queue = new PriorityQueue<int, double>();
         queue.Enqueue(0, 0);
-        while (queue.TryDequeue(out var node, out _))
+        while (queue.TryDequeue(out var node, out var bound))
         {
-            if (CannotHold(tree.Env, node, lat, lon, best))
+            if (bound >= best)
             {
-                continue;
+                break; // the queue is ordered by a rigorous lower bound: nothing left can be nearer
             }
 
             var first = tree.First[node];
@@ -64,9 +66,10 @@ internal static class CoastDistance
                 for (var k = 0; k < count; k++)
                 {
                     var child = tree.Children[first + k];
-                    if (!CannotHold(tree.Env, child, lat, lon, best))
+                    var b = BoxBound(tree.Env, child, latRad, sinLat, cosLat, lon);
+                    if (b < best)
                     {
-                        queue.Enqueue(child, Estimate(tree.Env, child, lat, lon, parallelHere));
+                        queue.Enqueue(child, b);
                     }
                 }
 
@@ -122,40 +125,46 @@ internal static class CoastDistance
     }
 
     /// <summary>
-    /// True when no point of node <paramref name="k"/>'s box can lie within <paramref name="best"/> metres (geodesic) of
-    /// the station. Rigorous: a path to a point of the box spans at least the latitude gap (≥ 110 574 m per degree) and
-    /// the longitude gap, at no more than the metres per degree of longitude of the highest latitude such a path can
-    /// reach while shorter than <paramref name="best"/>.
+    /// A rigorous lower bound of the geodesic distance (m) from the station to any point of node <paramref name="k"/>'s
+    /// longitude/latitude box: M_eq times the great-circle angle to the box on the unit sphere (same latitude and
+    /// longitude). Every path on the ellipsoid is at least as long as the same path on a sphere of radius
+    /// M_eq = a(1 − e²) = 6 335 439 m, the smallest radius of curvature, because M(φ) ≥ M_eq and N(φ) ≥ a > M_eq.
+    /// The angle to the box: the latitude gap when the station's longitude is within the box's; otherwise the angle to
+    /// the nearer meridian edge, at the foot of the perpendicular from the station clamped to the edge.
     /// </summary>
-    private static bool CannotHold(double[] env, int k, double lat, double lon, double best)
+    private static double BoxBound(double[] env, int k, double latRad, double sinLat, double cosLat, double lon)
     {
-        if (double.IsPositiveInfinity(best))
+        var lo = env[4 * k];
+        var hi = env[(4 * k) + 1];
+        var south = env[(4 * k) + 2] * Deg;
+        var north = env[(4 * k) + 3] * Deg;
+        var lonGap = LonGap(lon, lo, hi);
+        double angle;
+        if (lonGap == 0)
         {
-            return false;
+            angle = Gap(latRad, south, north);
+        }
+        else
+        {
+            var dl = lonGap * Deg;
+            var cdl = Math.Cos(dl);
+            double foot;
+            if (cdl > 0)
+            {
+                foot = Math.Atan(Math.Tan(latRad) / cdl);
+            }
+            else
+            {
+                foot = latRad >= 0 ? Math.PI / 2 : -Math.PI / 2;
+            }
+
+            var phi = Math.Clamp(foot, south, north);
+            var (sp, cp) = Math.SinCos(phi);
+            var c = (sinLat * sp) + (cosLat * cp * cdl);
+            angle = Math.Acos(Math.Clamp(c, -1, 1));
         }
 
-        var latGap = Gap(lat, env[(4 * k) + 2], env[(4 * k) + 3]);
-        if (latGap * MinMetresPerDegreeLatitude >= best)
-        {
-            return true;
-        }
-
-        var reach = Math.Abs(lat) + (best / MinMetresPerDegreeLatitude);
-        if (reach >= 90)
-        {
-            return false;
-        }
-
-        var lonGap = LonGap(lon, env[4 * k], env[(4 * k) + 1]);
-        return lonGap * MetresPerDegreeLongitude(reach) * 0.999999 >= best;
-    }
-
-    /// <summary>A cheap estimate of the distance to node k's box, metres: only orders the search.</summary>
-    private static double Estimate(double[] env, int k, double lat, double lon, double parallelHere)
-    {
-        var a = Gap(lat, env[(4 * k) + 2], env[(4 * k) + 3]) * MinMetresPerDegreeLatitude;
-        var b = LonGap(lon, env[4 * k], env[(4 * k) + 1]) * parallelHere;
-        return Math.Sqrt((a * a) + (b * b));
+        return MinRadiusM * angle * (1 - 1e-9);
     }
 
     private static double Gap(double v, double lo, double hi) => v < lo ? lo - v : v > hi ? v - hi : 0;
