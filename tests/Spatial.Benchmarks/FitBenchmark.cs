@@ -92,7 +92,9 @@ public sealed class FitBenchmark : IBenchmark
         });
         var stages = new List<(string, double)>();
         StageTimer.Sink = (stage, seconds) => stages.Add((stage, seconds));
+        var cpuBefore = Process.GetCurrentProcess().TotalProcessorTime;
         var fitSeconds = BenchReport.BestSeconds(1, () => result = SeasonalFit.Fit(matrix, new FitOptions(Components: 4, MaxThreads: threads)));
+        var cpuSeconds = (Process.GetCurrentProcess().TotalProcessorTime - cpuBefore).TotalSeconds;
         cts.Cancel();
         sampler.Wait();
         StageTimer.Sink = null;
@@ -103,6 +105,9 @@ public sealed class FitBenchmark : IBenchmark
 
         report.Figure("whole fit, K = 4", fitSeconds, "s");
         report.Figure("whole fit ÷ 10 s target", fitSeconds / 10, "×");
+        report.Figure("whole fit, process CPU time (all threads)", cpuSeconds, "s");
+        report.Figure("CPU time ÷ cores (wall time on an idle machine, at best)", cpuSeconds / Environment.ProcessorCount, "s");
+        report.Figure("wall time ÷ (CPU time ÷ cores): slowdown from sharing", fitSeconds / (cpuSeconds / Environment.ProcessorCount), "×");
         report.Figure("peak working set during fit ÷ float32 matrix", peak / matrixBytes, "×");
         report.Figure("working set before fit ÷ float32 matrix", rssBefore / matrixBytes, "×");
         report.Line(FormattableString.Invariant($"  labels {string.Join(',', result!.Basis.Labels)}; variance fraction {result.Basis.CumulativeFraction[^1]:F4}; managed heap before {before / 1e9:F2} GB; sink {sink:G3}"));
