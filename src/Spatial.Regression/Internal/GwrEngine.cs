@@ -119,7 +119,7 @@ internal sealed class GwrEngine
             if (adaptive)
             {
                 d[i] = double.PositiveInfinity;
-                bi = KthSmallest(d, (int)bandwidth) * 1.000001;
+                bi = KthSmallest(d, (int)bandwidth, buf.W) * 1.000001;
                 d[i] = 0;
             }
             else
@@ -330,9 +330,10 @@ internal sealed class GwrEngine
     }
 
     /// <summary>k-th smallest value (1-based) of <paramref name="values"/>, by selection on a copy.</summary>
-    internal static double KthSmallest(double[] values, int k)
+    internal static double KthSmallest(double[] values, int k, double[]? scratch = null)
     {
-        var a = (double[])values.Clone();
+        var a = scratch ?? new double[values.Length];
+        Array.Copy(values, a, values.Length);
         var lo = 0;
         var hi = a.Length - 1;
         var target = k - 1;
