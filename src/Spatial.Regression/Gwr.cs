@@ -3,7 +3,7 @@ namespace Spatial.Regression;
 /// <summary>Kernel of a geographically weighted regression (Fotheringham, Brunsdon &amp; Charlton 2002, §2.7).</summary>
 public enum GwrKernel
 {
-    /// <summary>w = exp(−½ (d/b)²).</summary>
+    /// <summary>w = exp(−½ (d/b)²); weights below 1e-12 (d &gt; 7.43 b) are taken as 0.</summary>
     Gaussian,
 
     /// <summary>w = (1 − (d/b)²)² for d &lt; b, else 0.</summary>

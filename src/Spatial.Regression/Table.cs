@@ -96,6 +96,29 @@ public sealed class Table
         return new Table(label, names, rows, lines);
     }
 
+    /// <summary>
+    /// A table from text cells (e.g. a join of two CSV files made by the caller); rows are numbered as lines
+    /// 2, 3, … for messages. Cells are trimmed; short rows read as empty cells. Throws <see cref="SpatialDataException"/>
+    /// for an empty or duplicated column name.
+    /// </summary>
+    public static Table FromCells(string label, IReadOnlyList<string> columns, IReadOnlyList<IReadOnlyList<string>> rows)
+    {
+        ArgumentNullException.ThrowIfNull(columns);
+        ArgumentNullException.ThrowIfNull(rows);
+        var seen = new HashSet<string>(StringComparer.Ordinal);
+        for (var c = 0; c < columns.Count; c++)
+        {
+            if (string.IsNullOrWhiteSpace(columns[c]) || !seen.Add(columns[c]))
+            {
+                throw new SpatialDataException(label, 1, $"column {c + 1} ('{columns[c]}') is empty or appears twice", "give every column a distinct name", c + 1);
+            }
+        }
+
+        var cells = rows.Select(r => r.Select(v => (v ?? string.Empty).Trim()).ToArray()).ToArray();
+        var lines = Enumerable.Range(0, cells.Length).Select(i => (long)i + 2).ToArray();
+        return new Table(label, columns.ToArray(), cells, lines);
+    }
+
     private static Table Read(TextReader reader, string source)
     {
         long lineNo = 0;

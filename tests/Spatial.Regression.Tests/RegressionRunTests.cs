@@ -139,3 +139,25 @@ public sealed class RegressionRunTests
         }
     }
 }
+
+/// <summary>Tables built from cells by a caller (the lead's join of station summaries and covariates).</summary>
+public sealed class TableFromCellsTests
+{
+    [Fact]
+    public void Given_joined_cells_When_fitted_Then_the_decimal_text_is_used_and_rows_are_numbered_from_line_2()
+    {
+        // Plumbing: y = 2 + 3x exactly.
+        var t = Table.FromCells("joined", ["station", "x", "y"], [["A", "0.1", "2.3"], ["B", "0.2", "2.6"], ["C", "0.3", "2.9"], ["D", "x", "3.2"]]);
+
+        var e = Assert.Throws<SpatialDataException>(() => RegressionRun.Fit(t, new ModelSpec("y", ["x"]), new RegressionOptions()));
+
+        Assert.Equal(5, e.Diagnostic.Line);
+        var ok = Table.FromCells("joined", ["station", "x", "y"], [["A", "0.1", "2.3"], ["B", "0.2", "2.6"], ["C", "0.3", "2.9"], ["D", "0.4", "3.2"]]);
+        var r = RegressionRun.Fit(ok, new ModelSpec("y", ["x"]), new RegressionOptions());
+        Tolerance.Near(3.0, r.Fit.Coefficients[1].Estimate, 1e-13, "slope");
+    }
+
+    [Fact]
+    public void Given_a_duplicated_column_name_When_a_table_is_built_from_cells_Then_it_is_a_located_error() =>
+        Assert.Throws<SpatialDataException>(() => Table.FromCells("joined", ["station", "x", "x"], []));
+}

@@ -11,6 +11,9 @@ internal sealed class GwrEngine
 
     /// <summary>Up to this many stations the all-pairs distances are computed once and kept (as float km, n² × 4 bytes: 100 MB at 5,000).</summary>
     internal const int CacheLimit = 6000;
+
+    /// <summary>Gaussian weights are set to 0 beyond this many bandwidths, where exp(−½u²) &lt; 1e-12 (u = √(2 ln 1e12)).</summary>
+    internal static readonly double GaussianCutoff = Math.Sqrt(2 * Math.Log(1e12));
     private readonly Spatial.Regression.GwrKernel kernel;
     private readonly bool adaptive;
 
@@ -119,7 +122,7 @@ internal sealed class GwrEngine
             if (adaptive)
             {
                 d[i] = double.PositiveInfinity;
-                bi = KthSmallest(d, (int)bandwidth) * 1.000001;
+                bi = KthSmallest(d, (int)bandwidth, buf.W) * 1.000001;
                 d[i] = 0;
             }
             else
@@ -132,9 +135,10 @@ internal sealed class GwrEngine
             Array.Clear(a);
             Array.Clear(c);
             var bMat = full ? new double[p * p] : null;
+            var cut = bi * (kernel == Spatial.Regression.GwrKernel.Gaussian ? GaussianCutoff : 1.0);
             for (var j = 0; j < n; j++)
             {
-                var wj = Kernel(d[j], bi);
+                var wj = d[j] < cut ? Kernel(d[j], bi) : 0.0;
                 w[j] = wj;
                 if (wj == 0)
                 {
@@ -330,9 +334,10 @@ internal sealed class GwrEngine
     }
 
     /// <summary>k-th smallest value (1-based) of <paramref name="values"/>, by selection on a copy.</summary>
-    internal static double KthSmallest(double[] values, int k)
+    internal static double KthSmallest(double[] values, int k, double[]? scratch = null)
     {
-        var a = (double[])values.Clone();
+        var a = scratch ?? new double[values.Length];
+        Array.Copy(values, a, values.Length);
         var lo = 0;
         var hi = a.Length - 1;
         var target = k - 1;
