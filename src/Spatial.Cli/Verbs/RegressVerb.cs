@@ -11,9 +11,12 @@ internal static class RegressVerb
 {
     public static Command Create(CliEnv env)
     {
-        var table = new Option<string>("--table") { Description = "CSV table with a header row (comma separated, invariant numbers).", Required = true };
-        var response = new Option<string>("--response") { Description = "Response column.", Required = true };
-        var predictors = new Option<string>("--predictors") { Description = "Predictor columns, comma separated (e.g. elevation_dem_m,coast_km).", Required = true };
+        var table = new Option<string?>("--table") { Description = "CSV table with a header row (comma separated, invariant numbers). Needs --response and --predictors." };
+        var response = new Option<string?>("--response") { Description = "Response column (with --results: comma-separated responses; default the timing, duration and amount components and the main season metrics)." };
+        var predictors = new Option<string?>("--predictors") { Description = "Predictor columns, comma separated (e.g. elevation_dem_m,coast_km; with --results default elevation_km,coast_10km,latitude)." };
+        var results = new Option<string?>("--results") { Description = "Workflow shortcut: join RESULTS/stations.csv (fit) with RESULTS/covariates.csv and fit each response; writes RESULTS/regression/." };
+        var grid = new Option<string?>("--grid") { Description = "With --results: DEM whose land cells get the covariates, the predictions and 95 % prediction intervals (GeoTIFFs, masked at sea)." };
+        var gridCoast = new Option<string?>("--coast") { Description = "With --grid: coastline GeoJSON (land polygons mask the sea; distances for coast predictors), or 'world'." };
         var noIntercept = new Option<bool>("--no-intercept") { Description = "Fit without a constant term (R² is then the uncentred one)." };
         var weights = new Option<string?>("--weights") { Description = "Column of positive weights for weighted least squares." };
         var output = new Option<string?>("--out") { Description = "Results folder: files go to OUT/regression/ (regression.json, fitted.csv, local.csv) and OUT/manifest.json." };
@@ -29,15 +32,31 @@ internal static class RegressVerb
 
         var cmd = new Command("regress", "Fit a response against predictors of any table: coefficients with inference, diagnostics, Moran's I of residuals, block cross-validation, local regression.")
         {
-            table, response, predictors, noIntercept, weights, output, coords, moranK, moranWeights, permutations, seed, blockKm, local, adaptive, bandwidth,
+            table, response, predictors, results, grid, gridCoast, noIntercept, weights, output, coords, moranK, moranWeights, permutations, seed, blockKm, local, adaptive, bandwidth,
         };
 
         cmd.SetAction(parse =>
         {
             var json = parse.GetValue(CliApp.Json);
-            var tablePath = parse.GetValue(table)!;
-            var preds = parse.GetValue(predictors)!.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries);
-            if (preds.Length == 0)
+            var resultsDir = parse.GetValue(results);
+            var tablePath = parse.GetValue(table);
+            if (resultsDir is null && (tablePath is null || parse.GetValue(response) is null || parse.GetValue(predictors) is null))
+            {
+                throw new UsageException("regress needs --table, --response and --predictors, or --results DIR");
+            }
+
+            if (resultsDir is not null && tablePath is not null)
+            {
+                throw new UsageException("give either --table or --results, not both");
+            }
+
+            if (resultsDir is null && (parse.GetValue(grid) is not null || parse.GetValue(gridCoast) is not null))
+            {
+                throw new UsageException("--grid and --coast go with --results");
+            }
+
+            var preds = parse.GetValue(predictors)?.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries);
+            if (preds is { Length: 0 })
             {
                 throw new UsageException("--predictors needs at least one column name");
             }
@@ -104,15 +123,20 @@ internal static class RegressVerb
                 BlockKm = block,
                 Local = gwr,
             };
-            var spec = new ModelSpec(parse.GetValue(response)!, preds, !parse.GetValue(noIntercept), parse.GetValue(weights));
-            var data = Table.ReadCsv(tablePath);
+            if (resultsDir is not null)
+            {
+                return RunResults(env, json, resultsDir, parse.GetValue(response), preds, options, parse.GetValue(grid), parse.GetValue(gridCoast));
+            }
+
+            var spec = new ModelSpec(parse.GetValue(response)!, preds!, !parse.GetValue(noIntercept), parse.GetValue(weights));
+            var data = Table.ReadCsv(tablePath!);
             var report = CliOutput.WithProgress(env, json, "regress", _ => RegressionRun.Fit(data, spec, options));
 
             var outDir = parse.GetValue(output);
             if (outDir is not null)
             {
                 ResultFiles.Write(Path.Combine(outDir, ResultLayout.RegressionFolder), [report]);
-                RunManifest.Record(outDir, "regress", [tablePath], new Dictionary<string, string?>
+                RunManifest.Record(outDir, "regress", [tablePath!], new Dictionary<string, string?>
                 {
                     ["response"] = spec.Response,
                     ["predictors"] = string.Join(",", spec.Predictors),
@@ -154,6 +178,61 @@ internal static class RegressVerb
             return ExitCodes.Done;
         });
         return cmd;
+    }
+
+    private static int RunResults(CliEnv env, bool json, string dir, string? responses, string[]? predictors, RegressionOptions options, string? grid, string? coast)
+    {
+        var chosen = responses?.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries);
+        var outcome = CliOutput.WithProgress(env, json, "regress", _ => Workflow.ResultsRegression.Run(dir, chosen, predictors, options, grid, coast));
+        var inputs = new List<string> { Path.Combine(dir, ResultLayout.Stations), Path.Combine(dir, ResultLayout.Covariates) };
+        if (grid is not null)
+        {
+            inputs.Add(grid);
+        }
+
+        if (coast is not null && coast != "world")
+        {
+            inputs.Add(coast);
+        }
+
+        RunManifest.Record(dir, "regress", inputs, new Dictionary<string, string?>
+        {
+            ["results"] = dir,
+            ["responses"] = string.Join(",", outcome.Models.Select(m => m.Spec.Response)),
+            ["predictors"] = string.Join(",", outcome.Models.Count > 0 ? outcome.Models[0].Spec.Predictors : []),
+            ["moran_k"] = options.MoranK.ToString(CultureInfo.InvariantCulture),
+            ["permutations"] = options.Permutations.ToString(CultureInfo.InvariantCulture),
+            ["seed"] = options.Seed.ToString(CultureInfo.InvariantCulture),
+            ["block_km"] = options.BlockKm?.ToString("R", CultureInfo.InvariantCulture),
+            ["local"] = options.Local is null ? null : options.Local.Kernel == GwrKernel.Gaussian ? "gaussian" : "bisquare",
+            ["grid"] = grid,
+            ["coast"] = coast,
+        });
+        if (json)
+        {
+            var doc = JsonNode.Parse(ResultFiles.Json(outcome.Models))!.AsObject();
+            var summary = new JsonObject
+            {
+                ["verb"] = "regress",
+                ["table"] = outcome.TablePath,
+                ["out"] = outcome.Folder,
+                ["surfaces"] = new JsonArray(outcome.Surfaces.Select(x => (JsonNode)JsonValue.Create(x)!).ToArray()),
+                ["models"] = doc["models"]!.DeepClone(),
+            };
+            env.Out.WriteLine(summary.ToJsonString(CliOutput.JsonOptions));
+        }
+        else
+        {
+            foreach (var model in outcome.Models)
+            {
+                RegressionText.Write(env.Out, model);
+                env.Out.WriteLine();
+            }
+
+            env.Out.WriteLine($"wrote {outcome.Folder} ({outcome.Models.Count} models{(outcome.Surfaces.Count > 0 ? $", {outcome.Surfaces.Count} predicted-surface files" : string.Empty)}); joined table {outcome.TablePath}");
+        }
+
+        return ExitCodes.Done;
     }
 }
 
