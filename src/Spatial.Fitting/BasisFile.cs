@@ -20,7 +20,7 @@ public static class BasisFile
         ArgumentNullException.ThrowIfNull(basis);
         AtomicFile.Write(path, stream =>
         {
-            using var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true });
+            using var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true, Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping });
             w.WriteStartObject();
             w.WriteNumber("format_version", basis.FormatVersion);
             w.WriteString("season_start", basis.SeasonStart);

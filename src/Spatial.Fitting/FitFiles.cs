@@ -133,7 +133,7 @@ public static class FitFiles
     {
         AtomicFile.Write(path, stream =>
         {
-            using var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true });
+            using var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true, Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping });
             var it = result.Interpretation;
             w.WriteStartObject();
             w.WriteString("residual_definition", "residual_k = sqrt(sum over observed days of (x - mean - sum_{i<=k} c_i v_i)^2) / sqrt(sum over observed days of (x - mean)^2); residual_0 = 1");

@@ -3,8 +3,9 @@ using Spatial.Core;
 namespace Spatial.Fitting.Internal;
 
 /// <summary>
-/// Labels components from their correlation with the season metrics and orients their signs (DESIGN.md): component 1
-/// positive = more snow than the mean curve (Σ_d v_1d &gt; 0); an amount component positive = deeper peak; a timing
+/// Labels components from their correlation with the season metrics and orients their signs (DESIGN.md): component 1,
+/// when labelled amount or other, positive = more snow than the mean curve (Σ_d v_1d &gt; 0); a component labelled timing or
+/// duration follows its label's rule even when it is component 1; an amount component positive = deeper peak; a timing
 /// component positive = earlier season (negative r with the centroid day); a duration component positive = longer
 /// cover (positive r with its duration metric); an other component has Σ_d v_d &gt; 0.
 /// </summary>
@@ -62,7 +63,7 @@ internal static class Interpreter
             var metric = assigned[c] ? IndexOf(metricName) : -1;
             int sign;
             string rule;
-            if (c == 0)
+            if (c == 0 && label is Amount or Other)
             {
                 sign = components[c].Sum() >= 0 ? 1 : -1;
                 rule = "component 1: positive = more snow than the mean curve (sum of the component over the season > 0)";

@@ -22,24 +22,28 @@ internal static class Trend
             return new MannKendallResult(n, double.NaN, double.NaN, double.NaN, double.NaN);
         }
 
-        var order = SortedOrder(x);
+        var order = IsAscending(x) ? null : SortedOrder(x);
         long s = 0;
         for (var i = 0; i < n; i++)
         {
+            var oi = order is null ? i : order[i];
             for (var j = i + 1; j < n; j++)
             {
-                var dx = x[order[j]] - x[order[i]];
+                var oj = order is null ? j : order[j];
+                var dx = x[oj] - x[oi];
                 if (dx == 0)
                 {
                     continue;
                 }
 
-                s += Math.Sign(y[order[j]] - y[order[i]]);
+                s += Math.Sign(y[oj] - y[oi]);
             }
         }
 
-        var sorted = y.ToArray();
-        Array.Sort(sorted);
+        var rented = System.Buffers.ArrayPool<double>.Shared.Rent(n);
+        var sorted = rented.AsSpan(0, n);
+        y.CopyTo(sorted);
+        sorted.Sort();
         double ties = 0;
         for (var i = 0; i < n;)
         {
@@ -58,6 +62,7 @@ internal static class Trend
             i = j;
         }
 
+        System.Buffers.ArrayPool<double>.Shared.Return(rented);
         var variance = ((n * (n - 1.0) * ((2.0 * n) + 5)) - ties) / 18.0;
         var z = s > 0 ? (s - 1) / Math.Sqrt(variance) : s < 0 ? (s + 1) / Math.Sqrt(variance) : 0.0;
         var p = variance > 0 ? SpecialFunctions.Erfc(Math.Abs(z) / Math.Sqrt(2.0)) : double.NaN;
@@ -73,7 +78,7 @@ internal static class Trend
             return double.NaN;
         }
 
-        var slopes = new double[n * (n - 1) / 2];
+        var slopes = System.Buffers.ArrayPool<double>.Shared.Rent(n * (n - 1) / 2);
         var m = 0;
         for (var i = 0; i < n; i++)
         {
@@ -89,12 +94,15 @@ internal static class Trend
 
         if (m == 0)
         {
+            System.Buffers.ArrayPool<double>.Shared.Return(slopes);
             return double.NaN;
         }
 
         var span = slopes.AsSpan(0, m);
         var upper = Select(span, m / 2);
-        return m % 2 == 1 ? upper : 0.5 * (Max(span[..(m / 2)]) + upper);
+        var median = m % 2 == 1 ? upper : 0.5 * (Max(span[..(m / 2)]) + upper);
+        System.Buffers.ArrayPool<double>.Shared.Return(slopes);
+        return median;
     }
 
     /// <summary>The value of rank <paramref name="rank"/> (0-based) of <paramref name="v"/>, which is reordered so that v[..rank] ≤ v[rank] (Hoare's selection).</summary>
@@ -165,6 +173,19 @@ internal static class Trend
         var lo = (int)Math.Floor(h);
         var hi = Math.Min(lo + 1, sorted.Length - 1);
         return sorted[lo] + ((h - lo) * (sorted[hi] - sorted[lo]));
+    }
+
+    private static bool IsAscending(ReadOnlySpan<double> x)
+    {
+        for (var i = 1; i < x.Length; i++)
+        {
+            if (!(x[i] >= x[i - 1]))
+            {
+                return false;
+            }
+        }
+
+        return true;
     }
 
     private static int[] SortedOrder(ReadOnlySpan<double> x)
