@@ -22,7 +22,7 @@ internal readonly record struct CoastHit(double DistanceM, double AzimuthDeg, do
 ///    distance (a chord is never longer than the geodesic); it is refined only when that bound is below the best so
 ///    far. 3. Refinement: the segment is straight in longitude/latitude
 ///    (RFC 7946); the geodesic distance (Vincenty / Karney guard, <see cref="Geodesic"/>) from the station to the point at
-///    fraction t is minimised over t ∈ [0, 1] by golden-section search to 1e-9 of the segment.
+///    fraction t is minimised over t ∈ [0, 1] by golden-section search to 0.05 mm along the segment.
 /// </remarks>
 internal static class CoastDistance
 {
@@ -30,6 +30,9 @@ internal static class CoastDistance
 
     // M_eq = a(1 − e²), the meridian radius of curvature at the equator, the smallest radius of curvature of WGS 84.
     private const double MinRadiusM = Geodesic.A * (1 - (Geodesic.F * (2 - Geodesic.F)));
+
+    // a²/b, the polar radius of curvature, the largest radius of curvature of WGS 84.
+    private const double MaxRadiusM = Geodesic.A * Geodesic.A / Geodesic.B;
     private static readonly double InvPhi = (Math.Sqrt(5) - 1) / 2;
 
     public static CoastHit Nearest(CoastGeometry coast, double lat, double lon)
@@ -50,6 +53,7 @@ internal static class CoastDistance
         var bestLat = double.NaN;
         var bestLon = double.NaN;
         var bestIndex = int.MaxValue;
+        Span<(double Bound, int Index)> leafBuffer = stackalloc (double, int)[32];
         var queue = new PriorityQueue<int, double>();
         queue.Enqueue(0, 0);
         while (queue.TryDequeue(out var node, out var bound))
@@ -76,13 +80,19 @@ internal static class CoastDistance
                 continue;
             }
 
+            var leaf = count <= leafBuffer.Length ? leafBuffer[..count] : new (double Bound, int Index)[count];
             for (var k = 0; k < count; k++)
             {
                 var i = tree.Children[first + k];
-                var lb = Math.Max(Chord(s, segs.Ecef1, i), Chord(s, segs.Ecef2, i)) - segs.LengthBoundM[i];
+                leaf[k] = (SegmentBound(s, segs, i), i);
+            }
+
+            leaf.Sort();
+            foreach (var (lb, i) in leaf)
+            {
                 if (lb > best)
                 {
-                    continue;
+                    break;
                 }
 
                 var (dist, plat, plon) = Refine(lat, lon, segs.Lat1[i], segs.Lon1[i], segs.Lat2[i], segs.Lon2[i]);
@@ -188,6 +198,45 @@ internal static class CoastDistance
     /// <summary>WGS 84 metres per degree of longitude at latitude φ: (π/180)·N(φ)·cos φ.</summary>
     internal static double MetresPerDegreeLongitude(double latDeg) => Surface.TerrainMetrics.MetresPerDegree(latDeg).EastM;
 
+    /// <summary>
+    /// A lower bound of the geodesic distance from the station to segment i, metres: the larger of
+    /// (a) chord to an end − the segment's length bound, and (b) 2·R·asin(c / 2R) with R = a²/b (the largest radius of
+    /// curvature of WGS 84) and c = the 3-D distance to the straight chord between the ends less the deviation bound —
+    /// a geodesic's curvature is at least 1/R, so by Schur's comparison theorem it is no shorter than the circular arc
+    /// of radius R over the same chord.
+    /// </summary>
+    private static double SegmentBound(ReadOnlySpan<double> s, SegmentSet segs, int i)
+    {
+        var a = Math.Max(Chord(s, segs.Ecef1, i), Chord(s, segs.Ecef2, i)) - segs.LengthBoundM[i];
+        var dev = segs.DeviationBoundM[i];
+        if (double.IsNaN(dev))
+        {
+            return a;
+        }
+
+        var c = ChordToSegment(s, segs.Ecef1, segs.Ecef2, i) - dev;
+        if (c <= 0)
+        {
+            return Math.Max(a, 0);
+        }
+
+        var b = 2 * MaxRadiusM * Math.Asin(Math.Min(1, c / (2 * MaxRadiusM)));
+        return Math.Max(a, b * (1 - 1e-12));
+    }
+
+    private static double ChordToSegment(ReadOnlySpan<double> s, double[] e1, double[] e2, int i)
+    {
+        double ax = e1[3 * i], ay = e1[(3 * i) + 1], az = e1[(3 * i) + 2];
+        double dx = e2[3 * i] - ax, dy = e2[(3 * i) + 1] - ay, dz = e2[(3 * i) + 2] - az;
+        double px = s[0] - ax, py = s[1] - ay, pz = s[2] - az;
+        var len2 = (dx * dx) + (dy * dy) + (dz * dz);
+        var t = len2 > 0 ? Math.Clamp(((px * dx) + (py * dy) + (pz * dz)) / len2, 0, 1) : 0;
+        var qx = px - (t * dx);
+        var qy = py - (t * dy);
+        var qz = pz - (t * dz);
+        return Math.Sqrt((qx * qx) + (qy * qy) + (qz * qz));
+    }
+
     private static double Chord(ReadOnlySpan<double> s, double[] ends, int i)
     {
         var dx = s[0] - ends[3 * i];
@@ -206,12 +255,15 @@ internal static class CoastDistance
         }
 
         double F(double t) => Geodesic.Distance(lat, lon, lat1 + (t * (lat2 - lat1)), lon1 + (t * (lon2 - lon1)));
+        // Stop when the bracket is below 0.05 mm of the segment (its length bounded by 111.7 km per degree).
+        var lengthM = 111700 * (Math.Abs(lat2 - lat1) + Math.Abs(lon2 - lon1));
+        var tol = Math.Max(1e-12, 5e-5 / lengthM);
         double a = 0, b = 1;
         var x1 = b - (InvPhi * (b - a));
         var x2 = a + (InvPhi * (b - a));
         var f1 = F(x1);
         var f2 = F(x2);
-        while (b - a > 1e-9)
+        while (b - a > tol)
         {
             if (f1 <= f2)
             {
