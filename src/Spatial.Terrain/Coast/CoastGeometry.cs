@@ -115,6 +115,7 @@ public sealed class CoastGeometry
             var land = geometry.Factory.CreateMultiPolygon(polygons.ToArray());
             Land = land;
             LandLocator = new IndexedPointInAreaLocator(land);
+            _ = LandLocator.Locate(new Coordinate(0, 0)); // builds its index now, before any parallel use
         }
     }
 
