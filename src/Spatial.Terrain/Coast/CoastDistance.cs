@@ -20,9 +20,11 @@ internal readonly record struct CoastHit(double DistanceM, double AzimuthDeg, do
 ///    nearest segment is never missed. 2. Each segment gets a lower
 ///    bound, chord(station, end) − (upper bound of the segment's length), which never exceeds the true geodesic
 ///    distance (a chord is never longer than the geodesic); it is refined only when that bound is below the best so
-///    far. 3. Refinement: the segment is straight in longitude/latitude
+///    far; segments wait in the same queue as the boxes, so the one with the smallest bound is refined first.
+///    3. Refinement: the segment is straight in longitude/latitude
 ///    (RFC 7946); the geodesic distance (Vincenty / Karney guard, <see cref="Geodesic"/>) from the station to the point at
-///    fraction t is minimised over t ∈ [0, 1] by golden-section search to 0.05 mm along the segment.
+///    fraction t is minimised over t ∈ [0, 1] by Brent's method (parabolic steps, golden-section fallback) to 0.05 mm
+///    along the segment, and compared with both ends.
 /// </remarks>
 internal static class CoastDistance
 {
@@ -33,7 +35,6 @@ internal static class CoastDistance
 
     // a²/b, the polar radius of curvature, the largest radius of curvature of WGS 84.
     private const double MaxRadiusM = Geodesic.A * Geodesic.A / Geodesic.B;
-    private static readonly double InvPhi = (Math.Sqrt(5) - 1) / 2;
 
     public static CoastHit Nearest(CoastGeometry coast, double lat, double lon)
     {
@@ -53,7 +54,6 @@ internal static class CoastDistance
         var bestLat = double.NaN;
         var bestLon = double.NaN;
         var bestIndex = int.MaxValue;
-        Span<(double Bound, int Index)> leafBuffer = stackalloc (double, int)[32];
         var queue = new PriorityQueue<int, double>();
         queue.Enqueue(0, 0);
         while (queue.TryDequeue(out var node, out var bound))
@@ -63,38 +63,10 @@ internal static class CoastDistance
                 break; // the queue is ordered by a rigorous lower bound: nothing left can be nearer
             }
 
-            var first = tree.First[node];
-            var count = tree.Count[node];
-            if (!tree.Leaf[node])
+            if (node < 0)
             {
-                for (var k = 0; k < count; k++)
-                {
-                    var child = tree.Children[first + k];
-                    var b = BoxBound(tree.Env, child, latRad, sinLat, cosLat, lon);
-                    if (b < best)
-                    {
-                        queue.Enqueue(child, b);
-                    }
-                }
-
-                continue;
-            }
-
-            var leaf = count <= leafBuffer.Length ? leafBuffer[..count] : new (double Bound, int Index)[count];
-            for (var k = 0; k < count; k++)
-            {
-                var i = tree.Children[first + k];
-                leaf[k] = (SegmentBound(s, segs, i), i);
-            }
-
-            leaf.Sort();
-            foreach (var (lb, i) in leaf)
-            {
-                if (lb > best)
-                {
-                    break;
-                }
-
+                // A segment, queued with its own lower bound: refine it exactly.
+                var i = -node - 1;
                 var (dist, plat, plon) = Refine(lat, lon, segs.Lat1[i], segs.Lon1[i], segs.Lat2[i], segs.Lon2[i]);
                 if (dist < best || (dist == best && i < bestIndex))
                 {
@@ -102,6 +74,20 @@ internal static class CoastDistance
                     bestLat = plat;
                     bestLon = plon;
                     bestIndex = i;
+                }
+
+                continue;
+            }
+
+            var first = tree.First[node];
+            var count = tree.Count[node];
+            for (var k = 0; k < count; k++)
+            {
+                var child = tree.Children[first + k];
+                var b = tree.Leaf[node] ? SegmentBound(s, segs, child) : BoxBound(tree.Env, child, latRad, sinLat, cosLat, lon);
+                if (b < best)
+                {
+                    queue.Enqueue(tree.Leaf[node] ? -child - 1 : child, b);
                 }
             }
         }
@@ -255,36 +241,103 @@ internal static class CoastDistance
         }
 
         double F(double t) => Geodesic.Distance(lat, lon, lat1 + (t * (lat2 - lat1)), lon1 + (t * (lon2 - lon1)));
+
         // Stop when the bracket is below 0.05 mm of the segment (its length bounded by 111.7 km per degree).
         var lengthM = 111700 * (Math.Abs(lat2 - lat1) + Math.Abs(lon2 - lon1));
         var tol = Math.Max(1e-12, 5e-5 / lengthM);
+
+        // Brent's minimisation (Brent 1973, "Algorithms for Minimization without Derivatives", ch. 5): parabolic steps
+        // with golden-section fallback on [0, 1], started at the middle.
+        const double CGold = 0.3819660112501051;
         double a = 0, b = 1;
-        var x1 = b - (InvPhi * (b - a));
-        var x2 = a + (InvPhi * (b - a));
-        var f1 = F(x1);
-        var f2 = F(x2);
-        while (b - a > tol)
+        double x = 0.5, w = 0.5, v = 0.5;
+        double fx = F(x), fw = fx, fv = fx;
+        double d = 0, e = 0;
+        for (var iter = 0; iter < 200; iter++)
         {
-            if (f1 <= f2)
+            var xm = 0.5 * (a + b);
+            var tol2 = 2 * tol;
+            if (Math.Abs(x - xm) <= tol2 - (0.5 * (b - a)))
             {
-                b = x2;
-                x2 = x1;
-                f2 = f1;
-                x1 = b - (InvPhi * (b - a));
-                f1 = F(x1);
+                break;
+            }
+
+            var golden = true;
+            if (Math.Abs(e) > tol)
+            {
+                var r = (x - w) * (fx - fv);
+                var q = (x - v) * (fx - fw);
+                var p = ((x - v) * q) - ((x - w) * r);
+                q = 2 * (q - r);
+                if (q > 0)
+                {
+                    p = -p;
+                }
+
+                q = Math.Abs(q);
+                var eOld = e;
+                e = d;
+                if (Math.Abs(p) < Math.Abs(0.5 * q * eOld) && p > q * (a - x) && p < q * (b - x))
+                {
+                    d = p / q;
+                    var trial = x + d;
+                    if (trial - a < tol2 || b - trial < tol2)
+                    {
+                        d = xm >= x ? tol : -tol;
+                    }
+
+                    golden = false;
+                }
+            }
+
+            if (golden)
+            {
+                e = x >= xm ? a - x : b - x;
+                d = CGold * e;
+            }
+
+            var u = Math.Abs(d) >= tol ? x + d : x + (d >= 0 ? tol : -tol);
+            var fu = F(u);
+            if (fu <= fx)
+            {
+                if (u >= x)
+                {
+                    a = x;
+                }
+                else
+                {
+                    b = x;
+                }
+
+                (v, fv) = (w, fw);
+                (w, fw) = (x, fx);
+                (x, fx) = (u, fu);
             }
             else
             {
-                a = x1;
-                x1 = x2;
-                f1 = f2;
-                x2 = a + (InvPhi * (b - a));
-                f2 = F(x2);
+                if (u < x)
+                {
+                    a = u;
+                }
+                else
+                {
+                    b = u;
+                }
+
+                if (fu <= fw || w == x)
+                {
+                    (v, fv) = (w, fw);
+                    (w, fw) = (u, fu);
+                }
+                else if (fu <= fv || v == x || v == w)
+                {
+                    (v, fv) = (u, fu);
+                }
             }
         }
 
-        var tm = 0.5 * (a + b);
-        var fm = F(tm);
+        var tm = x;
+        var fm = fx;
         var d2 = Geodesic.Distance(lat, lon, lat2, lon2);
         if (d1 <= fm && d1 <= d2)
         {
