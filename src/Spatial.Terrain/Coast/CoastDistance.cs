@@ -17,10 +17,8 @@ internal readonly record struct CoastHit(double DistanceM, double AzimuthDeg, do
 /// 1. Candidates: a best-first walk of the NetTopologySuite STR-tree over segment envelopes, ordered by a rigorous
 ///    lower bound of the geodesic distance to each box (<see cref="BoxBound"/>; longitudes compared across the
 ///    antimeridian); the walk stops when the smallest bound left is at least the best distance found, so the true
-///    nearest segment is never missed. 2. Each segment gets a lower
-///    bound, chord(station, end) − (upper bound of the segment's length), which never exceeds the true geodesic
-///    distance (a chord is never longer than the geodesic); it is refined only when that bound is below the best so
-///    far; segments wait in the same queue as the boxes, so the one with the smallest bound is refined first.
+///    nearest segment is never missed. 2. Each segment gets a rigorous lower
+///    bound (<see cref="SegmentBound"/>); it is refined only when that bound is below the best so far; segments wait in the same queue as the boxes, so the one with the smallest bound is refined first.
 ///    3. Refinement: the segment is straight in longitude/latitude
 ///    (RFC 7946); the geodesic distance (Vincenty / Karney guard, <see cref="Geodesic"/>) from the station to the point at
 ///    fraction t is minimised over t ∈ [0, 1] by Brent's method (parabolic steps, golden-section fallback) to 0.05 mm
@@ -248,10 +246,29 @@ internal static class CoastDistance
 
         // Brent's minimisation (Brent 1973, "Algorithms for Minimization without Derivatives", ch. 5): parabolic steps
         // with golden-section fallback on [0, 1], started at the middle.
+        // Start from the foot of the perpendicular on the straight 3-D chord, in a narrow bracket when it is one
+        // (the distance there is below both bracket ends), else over the whole segment.
         const double CGold = 0.3819660112501051;
+        Span<double> ps = stackalloc double[9];
+        Ecef.ToEcef(lat, lon, ps[..3]);
+        Ecef.ToEcef(lat1, lon1, ps.Slice(3, 3));
+        Ecef.ToEcef(lat2, lon2, ps.Slice(6, 3));
+        double ex = ps[6] - ps[3], ey = ps[7] - ps[4], ez = ps[8] - ps[5];
+        var len2 = (ex * ex) + (ey * ey) + (ez * ez);
+        var t0 = len2 > 0 ? Math.Clamp((((ps[0] - ps[3]) * ex) + ((ps[1] - ps[4]) * ey) + ((ps[2] - ps[5]) * ez)) / len2, 0, 1) : 0.5;
         double a = 0, b = 1;
-        double x = 0.5, w = 0.5, v = 0.5;
-        double fx = F(x), fw = fx, fv = fx;
+        var x = t0;
+        var fx = F(x);
+        var lo = Math.Max(0, t0 - 0.02);
+        var hi = Math.Min(1, t0 + 0.02);
+        if ((lo == 0 || F(lo) >= fx) && (hi == 1 || F(hi) >= fx))
+        {
+            a = lo;
+            b = hi;
+        }
+
+        double w = x, v = x;
+        double fw = fx, fv = fx;
         double d = 0, e = 0;
         for (var iter = 0; iter < 200; iter++)
         {
