@@ -115,6 +115,7 @@ public sealed class CoastGeometry
             var land = geometry.Factory.CreateMultiPolygon(polygons.ToArray());
             Land = land;
             LandLocator = new IndexedPointInAreaLocator(land);
+            _ = LandLocator.Locate(new Coordinate(0, 0)); // builds its index now, before any parallel use
         }
     }
 
@@ -297,6 +298,7 @@ internal sealed class SegmentSet
         Ecef1 = new double[3 * n];
         Ecef2 = new double[3 * n];
         LengthBoundM = new double[n];
+        DeviationBoundM = new double[n];
         for (var i = 0; i < n; i++)
         {
             Ecef.ToEcef(lat1[i], lon1[i], Ecef1.AsSpan(3 * i, 3));
@@ -307,6 +309,13 @@ internal sealed class SegmentSet
             // 111 320 m per degree of longitude times the largest cos(latitude) along it (L1 ≥ L2 length).
             var maxCos = Math.Cos(Math.PI / 180 * MinAbs(lat1[i], lat2[i]));
             LengthBoundM[i] = 1.0001 * ((111700 * Math.Abs(lat2[i] - lat1[i])) + (111321 * maxCos * Math.Abs(lon2[i] - lon1[i])));
+
+            // How far the lon/lat-straight segment can stray from the straight 3-D chord between its ends: the sagitta of
+            // an arc of length L on radius ≥ 6 335 km is L²/(8R); the parallel-following of a lon/lat line adds at most
+            // about L²·tan|φ|/(8R). Taken twice over; near the poles (|φ| > 80°) no such bound is used (NaN).
+            var maxAbsLat = Math.Max(Math.Abs(lat1[i]), Math.Abs(lat2[i]));
+            var l = LengthBoundM[i];
+            DeviationBoundM[i] = maxAbsLat > 80 ? double.NaN : 2 * l * l * (1 + Math.Tan(maxAbsLat * Math.PI / 180)) / (8 * 6335000.0);
         }
     }
 
@@ -325,6 +334,8 @@ internal sealed class SegmentSet
     public double[] Ecef2 { get; }
 
     public double[] LengthBoundM { get; }
+
+    public double[] DeviationBoundM { get; }
 
     private static double MinAbs(double a, double b) => (a <= 0 && b >= 0) || (a >= 0 && b <= 0) ? 0 : Math.Min(Math.Abs(a), Math.Abs(b));
 }
