@@ -13,13 +13,7 @@ public sealed class ApplyRecordsVerbTests : IDisposable
 
     public void Dispose() => Directory.Delete(dir, true);
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        using var output = new StringWriter();
-        using var error = new StringWriter();
-        var code = CliApp.Run(args, CliEnv.ForWriters(output, error));
-        return (code, output.ToString(), error.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliHarness.Run(args);
 
     /// <summary>Three stations, eight seasons of one bump of snow whose size and date vary; every day reported.</summary>
     private (string Records, string Stations) WriteRecords()

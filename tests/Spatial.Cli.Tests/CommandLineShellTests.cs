@@ -6,13 +6,7 @@ namespace Spatial.Cli.Tests;
 /// <summary>The command-line shell: exit codes and help, as documented in the README.</summary>
 public sealed class CommandLineShellTests
 {
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        using var output = new StringWriter();
-        using var error = new StringWriter();
-        var code = CliApp.Run(args, CliEnv.ForWriters(output, error));
-        return (code, output.ToString(), error.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliHarness.Run(args);
 
     [Fact]
     public void Version_is_printed_and_exit_code_is_zero()

@@ -29,13 +29,7 @@ public sealed class CovariatesVerbTests : IDisposable
 
     public void Dispose() => Directory.Delete(scratch, recursive: true);
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        using var o = new StringWriter();
-        using var e = new StringWriter();
-        var code = CliApp.Run(args, CliEnv.ForWriters(o, e));
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliHarness.Run(args);
 
     [Fact]
     public void Covariates_of_Flinders_Peak_give_GeographicLib_distance_to_Buninyong_and_the_hand_worked_DEM_value()

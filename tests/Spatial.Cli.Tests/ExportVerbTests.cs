@@ -16,13 +16,7 @@ public sealed class ExportVerbTests
         return dir;
     }
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        using var o = new StringWriter();
-        using var e = new StringWriter();
-        var code = CliApp.Run(args, CliEnv.ForWriters(o, e));
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliHarness.Run(args);
 
     [Fact]
     public void Export_writes_every_format_and_prints_a_JSON_summary_with_feature_counts()

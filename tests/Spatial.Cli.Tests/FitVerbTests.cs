@@ -13,13 +13,7 @@ public sealed class FitVerbTests : IDisposable
 
     public void Dispose() => Directory.Delete(dir, true);
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        using var output = new StringWriter();
-        using var error = new StringWriter();
-        var code = CliApp.Run(args, CliEnv.ForWriters(output, error));
-        return (code, output.ToString(), error.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliHarness.Run(args);
 
     /// <summary>Seasons of one bump whose size and date vary, 20% of days missing; the last season is flagged below the minimum.</summary>
     private string WriteMatrix(string name, int stations = 6, int seasons = 15, int seed = 5)

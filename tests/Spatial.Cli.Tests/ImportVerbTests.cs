@@ -12,13 +12,7 @@ public sealed class ImportVerbTests : IDisposable
 
     public void Dispose() => Directory.Delete(scratch, recursive: true);
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        using var o = new StringWriter();
-        using var e = new StringWriter();
-        var code = CliApp.Run(args, CliEnv.ForWriters(o, e));
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliHarness.Run(args);
 
     private static string Data(string name) => TestData.Path("import", name);
 

@@ -33,13 +33,7 @@ public sealed class RegressVerbTests : IDisposable
         return path;
     }
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        using var o = new StringWriter();
-        using var e = new StringWriter();
-        var code = CliApp.Run(args, CliEnv.ForWriters(o, e));
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliHarness.Run(args);
 
     [Fact]
     public void Given_a_table_When_regress_runs_with_out_Then_it_prints_the_coefficient_table_and_writes_the_results_folder()

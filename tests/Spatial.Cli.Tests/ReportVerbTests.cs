@@ -6,13 +6,7 @@ namespace Spatial.Cli.Tests;
 
 public sealed class ReportVerbTests
 {
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        using var o = new StringWriter();
-        using var e = new StringWriter();
-        var code = CliApp.Run(args, CliEnv.ForWriters(o, e));
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliHarness.Run(args);
 
     [Fact]
     public void Report_writes_one_well_formed_HTML_file_with_every_section()

@@ -12,13 +12,7 @@ public sealed class ScenarioVerbTests : IDisposable
 
     public void Dispose() => Directory.Delete(folder, recursive: true);
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        using var o = new StringWriter();
-        using var e = new StringWriter();
-        var code = CliApp.Run(args, CliEnv.ForWriters(o, e));
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliHarness.Run(args);
 
     [Fact]
     public void Given_a_folder_when_scenario_runs_then_it_writes_the_region_the_library_writes_and_a_manifest()
