@@ -104,21 +104,45 @@ internal sealed class Html
                 sb.Append("</tbody></table>");
                 break;
             case JsonArray a when a.Count > 0 && a.All(x => x is JsonObject):
-                var keys = a.OfType<JsonObject>().SelectMany(x => x.Select(kv => kv.Key)).Distinct().ToArray();
-                sb.Append("<table><thead><tr>");
-                foreach (var k in keys)
+                // One row per item; a nested object of scalars becomes columns of its own ("removed: spike"),
+                // so a per-station table stays one line per station.
+                var columns = new List<(string Key, string? Sub)>();
+                foreach (var item in a.OfType<JsonObject>())
                 {
-                    sb.Append("<th scope=\"col\">").Append(Esc(k.Replace('_', ' '))).Append("</th>");
+                    foreach (var (k, v) in item)
+                    {
+                        if (v is JsonObject inner && inner.All(kv => kv.Value is JsonValue or null))
+                        {
+                            foreach (var (ik, _) in inner)
+                            {
+                                if (!columns.Contains((k, ik)))
+                                {
+                                    columns.Add((k, ik));
+                                }
+                            }
+                        }
+                        else if (!columns.Contains((k, null)))
+                        {
+                            columns.Add((k, null));
+                        }
+                    }
+                }
+
+                sb.Append("<table><thead><tr>");
+                foreach (var (k, sub) in columns)
+                {
+                    var label = sub is null ? k : $"{k}: {sub}";
+                    sb.Append("<th scope=\"col\">").Append(Esc(label.Replace('_', ' '))).Append("</th>");
                 }
 
                 sb.Append("</tr></thead><tbody>");
                 foreach (var item in a.OfType<JsonObject>())
                 {
                     sb.Append("<tr>");
-                    foreach (var k in keys)
+                    foreach (var (k, sub) in columns)
                     {
                         sb.Append("<td>");
-                        Json(item[k], depth + 1);
+                        Json(sub is null ? item[k] : (item[k] as JsonObject)?[sub], depth + 1);
                         sb.Append("</td>");
                     }
 
