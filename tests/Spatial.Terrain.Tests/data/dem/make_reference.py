@@ -2,7 +2,7 @@
 # Bilinear: GDAL 3.6.2's gdallocationinfo has no -r option, so each value is GDAL's own bilinear resampling
 # (gdalwarp -r bilinear) of a one-cell output grid centred on the point at the source resolution, then read with
 # gdallocationinfo -valonly. Nearest: gdallocationinfo -valonly -geoloc on the fixture itself.
-import random, subprocess
+import os, random, subprocess, tempfile
 rng = random.Random(20261202)
 grids = {
     "dem_f32_strip.tif": (500000.0, 6705000.0, 100.0, 100.0, 60, 50),
@@ -14,6 +14,7 @@ grids = {
 }
 def run(*a):
     return subprocess.run(a, capture_output=True, text=True, check=True).stdout.strip()
+scratch = os.path.join(tempfile.mkdtemp(), "one.tif")
 with open("gdal_samples.csv", "w") as out:
     out.write("file,x,y,bilinear,nearest\n")
     for name, (x0, y0, dx, dy, w, h) in grids.items():
@@ -23,8 +24,8 @@ with open("gdal_samples.csv", "w") as out:
         for (x, y) in pts:
             x = round(x, 6 if dx > 1 else 9); y = round(y, 6 if dx > 1 else 9)
             run("gdalwarp", "-q", "-overwrite", "-r", "bilinear", "-ot", "Float64", "-te", repr(x - dx / 2), repr(y - dy / 2), repr(x + dx / 2), repr(y + dy / 2),
-                "-tr", repr(dx), repr(dy), "-dstnodata", "-1e30", name, "/tmp/one.tif")
-            b = run("gdallocationinfo", "-valonly", "/tmp/one.tif", "0", "0")
+                "-tr", repr(dx), repr(dy), "-dstnodata", "-1e30", name, scratch)
+            b = run("gdallocationinfo", "-valonly", scratch, "0", "0")
             b = "" if b in ("", "-1e+30") else b
             n = run("gdallocationinfo", "-valonly", "-geoloc", name, repr(x), repr(y)) if (x0 <= x <= x0 + w * dx) else ""
             out.write(f"{name},{x!r},{y!r},{b},{n}\n")
