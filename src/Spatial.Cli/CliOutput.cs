@@ -13,6 +13,8 @@ internal static class CliOutput
         WriteIndented = true,
         DefaultIgnoreCondition = JsonIgnoreCondition.Never,
         NumberHandling = JsonNumberHandling.AllowNamedFloatingPointLiterals,
+        // Readable paths and messages ('…', é) on standard output; the output is never embedded in HTML.
+        Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping,
     };
 
     /// <summary>Writes <paramref name="summary"/> as JSON to standard output.</summary>
