@@ -208,31 +208,36 @@ public static class MarrowfellScenario
             realised[m] = slopes.Count == 0 ? double.NaN : slopes.Average();
         }
 
-        var ols = new List<OlsEffect>();
-        for (var m = 0; m < 6; m++)
+        List<OlsEffect> OlsOf(Func<StationTruth, SnowMetrics> statistic)
         {
-            var rows = Enumerable.Range(0, stations.Length)
-                .Where(i => !double.IsNaN(truth[i].Mean.ToArray()[m]) && (m >= 2 || truth[i].CoverSeasonFraction >= 0.5))
-                .ToArray();
-            if (rows.Length < 8)
+            var ols = new List<OlsEffect>();
+            for (var m = 0; m < 6; m++)
             {
-                continue;
+                var rows = Enumerable.Range(0, stations.Length)
+                    .Where(i => !double.IsNaN(statistic(truth[i]).ToArray()[m]) && (m >= 2 || truth[i].CoverSeasonFraction >= 0.5))
+                    .ToArray();
+                if (rows.Length < 8)
+                {
+                    continue;
+                }
+
+                var x = new double[rows.Length, 4];
+                var y = new double[rows.Length];
+                for (var r = 0; r < rows.Length; r++)
+                {
+                    var s = stations[rows[r]];
+                    x[r, 0] = 1;
+                    x[r, 1] = s.ElevationTrueM / 1000;
+                    x[r, 2] = s.CoastKm / 10;
+                    x[r, 3] = s.Station.Latitude;
+                    y[r] = statistic(truth[rows[r]]).ToArray()[m];
+                }
+
+                var (b, r2) = LeastSquares.Fit(x, y);
+                ols.Add(new OlsEffect(SnowMetrics.Names[m], rows.Length, b[0], b[1], b[2], b[3], r2));
             }
 
-            var x = new double[rows.Length, 4];
-            var y = new double[rows.Length];
-            for (var r = 0; r < rows.Length; r++)
-            {
-                var s = stations[rows[r]];
-                x[r, 0] = 1;
-                x[r, 1] = s.ElevationTrueM / 1000;
-                x[r, 2] = s.CoastKm / 10;
-                x[r, 3] = s.Station.Latitude;
-                y[r] = truth[rows[r]].Mean.ToArray()[m];
-            }
-
-            var (b, r2) = LeastSquares.Fit(x, y);
-            ols.Add(new OlsEffect(SnowMetrics.Names[m], rows.Length, b[0], b[1], b[2], b[3], r2));
+            return ols;
         }
 
         return new RegionEffects(
@@ -243,7 +248,8 @@ public static class MarrowfellScenario
             Average(e => e.PerDegreeLatitude),
             Average(e => e.PerDecadeWarming),
             SnowMetrics.FromArray(realised),
-            ols);
+            OlsOf(t => t.Mean),
+            OlsOf(t => t.Median));
     }
 
     internal static double MetricOf(SeasonValues v, int m) => m switch

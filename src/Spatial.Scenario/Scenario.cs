@@ -106,7 +106,8 @@ public sealed record OlsEffect(string Response, int Stations, double Intercept, 
 /// station-mean metric of the noise-free generator (same random numbers, one input moved): elevation ±100 m, coast
 /// distance ±1 km, latitude ±0.05°, and a uniform temperature offset ±0.15 °C (0.3 °C = one decade of the trend).
 /// Onset and melt-out differences use the seasons with cover in both runs and the stations with cover in at least
-/// half of them (<see cref="TimingStations"/>).
+/// half of them (<see cref="TimingStations"/>). <see cref="Ols"/> regresses the station means, <see cref="OlsMedian"/>
+/// the station medians (the same stations and predictors): what a regression of station medians recovers from perfect data.
 /// </summary>
 public sealed record RegionEffects(
     int Stations,
@@ -116,7 +117,8 @@ public sealed record RegionEffects(
     SnowMetrics PerDegreeLatitude,
     SnowMetrics PerDecadeWarming,
     SnowMetrics PerDecadeRealised,
-    IReadOnlyList<OlsEffect> Ols);
+    IReadOnlyList<OlsEffect> Ols,
+    IReadOnlyList<OlsEffect> OlsMedian);
 
 /// <summary>All ground truth of a scenario.</summary>
 /// <param name="Stations">Per station, in <see cref="Scenario.Stations"/> order.</param>

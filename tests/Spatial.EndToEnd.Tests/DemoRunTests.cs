@@ -78,18 +78,18 @@ public sealed class DemoRunTests(DemoRunFixture demo) : IClassFixture<DemoRunFix
         Assert.True(labels.Contains("timing") || labels.Contains("duration"), $"labels: {string.Join(", ", labels)}");
     }
 
-    // The truth is a regression on station MEANS of the noise-free metrics; the tool regresses station MEDIANS of
-    // observed, faulty seasons. For skewed metrics (longest cover) the two differ by more than the interval, so the
-    // checks use the metrics whose medians and means agree: onset, snow-covered days and peak depth.
+    // The tool regresses station MEDIANS of observed, faulty seasons, so the reference is truth.json "effects.ols_median"
+    // (the same regression on the station medians of the noise-free metrics). For skewed metrics (longest cover) faults
+    // move observed medians by more than the interval, so the checks use onset, snow-covered days and peak depth.
     [Theory]
     [InlineData("median_onset_day", "onset_day")]
     [InlineData("median_snow_days", "snow_days")]
     [InlineData("median_peak_depth_mm", "peak_depth_mm")]
     public void Given_the_demo_region_when_regressed_then_the_elevation_effect_matches_the_generator_truth(string response, string truthMetric)
     {
-        // Reference: truth.json "effects.ols" — least squares of the generator's noise-free station values on
+        // Reference: truth.json "effects.ols_median" — least squares of the generator's noise-free station medians on
         // [1, elevation_km, coast_10km, latitude], written by the scenario generator (not by the regression stage).
-        var truth = demo.Truth["effects"]!["ols"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == truthMetric)!;
+        var truth = demo.Truth["effects"]!["ols_median"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == truthMetric)!;
         var model = demo.Regression["models"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == response)!;
         var elevation = model["coefficients"]!.AsArray().Single(c => c!["name"]!.GetValue<string>() == "elevation_km")!;
         var expected = truth["elevation_km"]!.GetValue<double>();
@@ -106,8 +106,8 @@ public sealed class DemoRunTests(DemoRunFixture demo) : IClassFixture<DemoRunFix
     [InlineData("median_meltout_day", "meltout_day")]
     public void Given_the_demo_region_when_regressed_then_the_coast_effect_agrees_in_sign_with_the_truth(string response, string truthMetric)
     {
-        // Reference: truth.json "effects.ols" coast_10km (generator's noise-free effect per 10 km inland).
-        var truth = demo.Truth["effects"]!["ols"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == truthMetric)!;
+        // Reference: truth.json "effects.ols_median" coast_10km (generator's noise-free effect per 10 km inland, on medians).
+        var truth = demo.Truth["effects"]!["ols_median"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == truthMetric)!;
         var model = demo.Regression["models"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == response)!;
         var coast = model["coefficients"]!.AsArray().Single(c => c!["name"]!.GetValue<string>() == "coast_10km")!;
         var expected = truth["coast_10km"]!.GetValue<double>();

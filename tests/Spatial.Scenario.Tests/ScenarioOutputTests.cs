@@ -408,35 +408,39 @@ public sealed class ScenarioOutputTests(ScenarioFixture fx)
     }
 
     [Fact]
-    public void The_ols_effects_in_truth_json_are_the_regression_of_its_own_station_means()
+    public void The_ols_effects_in_truth_json_are_the_regression_of_its_own_station_means_and_medians()
     {
-        // The documented definition, applied to the file's own numbers: least squares of each station mean on
+        // The documented definition, applied to the file's own numbers: least squares of each station mean (ols) or
+        // median (ols_median) on
         // [1, elevation_true_m/1000, coast_km/10, latitude] (onset/meltout: stations with cover in at least half the seasons).
         using var doc = JsonDocument.Parse(File.ReadAllText(fx.File(ScenarioFiles.Truth)));
         var stations = doc.RootElement.GetProperty("station_truth").EnumerateArray().ToArray();
-        foreach (var model in doc.RootElement.GetProperty("effects").GetProperty("ols").EnumerateArray())
+        foreach (var (block, statistic) in new[] { ("ols", "mean"), ("ols_median", "median") })
         {
-            var response = model.GetProperty("response").GetString()!;
-            var timing = response is "onset_day" or "meltout_day";
-            var rows = stations.Where(s => s.GetProperty("mean").GetProperty(response).ValueKind == JsonValueKind.Number
-                && (!timing || s.GetProperty("cover_season_fraction").GetDouble() >= 0.5)).ToArray();
-            Assert.Equal(model.GetProperty("stations").GetInt32(), rows.Length);
-            var x = new double[rows.Length, 4];
-            var y = new double[rows.Length];
-            for (var i = 0; i < rows.Length; i++)
+            foreach (var model in doc.RootElement.GetProperty("effects").GetProperty(block).EnumerateArray())
             {
-                x[i, 0] = 1;
-                x[i, 1] = rows[i].GetProperty("elevation_true_m").GetDouble() / 1000;
-                x[i, 2] = rows[i].GetProperty("coast_km").GetDouble() / 10;
-                x[i, 3] = rows[i].GetProperty("latitude").GetDouble();
-                y[i] = rows[i].GetProperty("mean").GetProperty(response).GetDouble();
+                var response = model.GetProperty("response").GetString()!;
+                var timing = response is "onset_day" or "meltout_day";
+                var rows = stations.Where(s => s.GetProperty(statistic).GetProperty(response).ValueKind == JsonValueKind.Number
+                    && (!timing || s.GetProperty("cover_season_fraction").GetDouble() >= 0.5)).ToArray();
+                Assert.Equal(model.GetProperty("stations").GetInt32(), rows.Length);
+                var x = new double[rows.Length, 4];
+                var y = new double[rows.Length];
+                for (var i = 0; i < rows.Length; i++)
+                {
+                    x[i, 0] = 1;
+                    x[i, 1] = rows[i].GetProperty("elevation_true_m").GetDouble() / 1000;
+                    x[i, 2] = rows[i].GetProperty("coast_km").GetDouble() / 10;
+                    x[i, 3] = rows[i].GetProperty("latitude").GetDouble();
+                    y[i] = rows[i].GetProperty(statistic).GetProperty(response).GetDouble();
+                }
+
+                var (b, _) = LeastSquares.Fit(x, y);
+
+                // The file rounds its inputs (metres to 0.1, km to 0.001, means to 1e-4): 0.1 % covers the effect of that rounding.
+                Tolerance.Relative(model.GetProperty("elevation_km").GetDouble(), b[1], 1e-3, $"{block} {response} per km elevation");
+                Tolerance.Relative(model.GetProperty("coast_10km").GetDouble(), b[2], 1e-3, $"{block} {response} per 10 km coast");
             }
-
-            var (b, _) = LeastSquares.Fit(x, y);
-
-            // The file rounds its inputs (metres to 0.1, km to 0.001, means to 1e-4): 0.1 % covers the effect of that rounding.
-            Tolerance.Relative(model.GetProperty("elevation_km").GetDouble(), b[1], 1e-3, $"{response} per km elevation");
-            Tolerance.Relative(model.GetProperty("coast_10km").GetDouble(), b[2], 1e-3, $"{response} per 10 km coast");
         }
     }
 

@@ -8,6 +8,24 @@ public sealed class SnowPhysicsTests
 {
     private static readonly RegionalWeather Weather = RegionalWeather.Generate(1990, 20, 5);
 
+    private static readonly RegionalWeather LongWeather = RegionalWeather.Generate(1870, 150, 11);
+
+    private static readonly RegionalWeather DefaultLengthWeather = RegionalWeather.Generate(1980, 45, 12);
+
+    private static double Sd(double[] x)
+    {
+        var m = x.Average();
+        return Math.Sqrt(x.Sum(v => (v - m) * (v - m)) / (x.Length - 1));
+    }
+
+    private static double Correlation(double[] x, double[] y)
+    {
+        var mx = x.Average();
+        var my = y.Average();
+        var sxy = x.Zip(y).Sum(p => (p.First - mx) * (p.Second - my));
+        return sxy / Math.Sqrt(x.Sum(v => (v - mx) * (v - mx)) * y.Sum(v => (v - my) * (v - my)));
+    }
+
     private static double MeanOf(PlaceInputs place, Func<SeasonValues, double> metric, double offsetC = 0) =>
         SeasonMetricsCalc.Compute(SnowSimulator.Simulate(Weather, place, 99, offsetC), Weather).Average(metric);
 
@@ -71,6 +89,58 @@ public sealed class SnowPhysicsTests
     {
         var place = new PlaceInputs(1000, 20, 47, 0);
         Assert.True(MeanOf(place, v => v.Duration, 1.0) < MeanOf(place, v => v.Duration, 0.0));
+    }
+
+    [Fact]
+    public void The_slow_anomaly_has_the_size_and_persistence_of_its_regime_and_ocean_parts()
+    {
+        // Sum of two independent AR(1) processes at daily step: variance σr² + σo², autocorrelation at lag L
+        // (σr² e^(−L/τr) + σo² e^(−L/τo)) / (σr² + σo²) — the generator's own inputs (Climate), "from memory" figures.
+        var regime = LongWeather.RegimeC;
+        var vr = Climate.RegimeSdC * Climate.RegimeSdC;
+        var vo = Climate.OceanSdC * Climate.OceanSdC;
+        const double sdRelativeTolerance = 0.12;
+        const double autocorrelationTolerance = 0.08;
+        var mean = regime.Average();
+        var variance = regime.Average(v => (v - mean) * (v - mean));
+        Assert.InRange(Math.Sqrt(variance) / Math.Sqrt(vr + vo), 1 - sdRelativeTolerance, 1 + sdRelativeTolerance);
+        foreach (var lag in new[] { 10, 30, 90 })
+        {
+            var expected = ((vr * Math.Exp(-lag / Climate.RegimeEFoldingDays)) + (vo * Math.Exp(-lag / Climate.OceanEFoldingDays))) / (vr + vo);
+            var sum = 0.0;
+            for (var t = lag; t < regime.Length; t++)
+            {
+                sum += (regime[t] - mean) * (regime[t - lag] - mean);
+            }
+
+            var observed = sum / (regime.Length - lag) / variance;
+            Assert.True(Math.Abs(expected - observed) <= autocorrelationTolerance, $"lag {lag} d: autocorrelation {observed:F3}, expected {expected:F3}");
+        }
+    }
+
+    [Fact]
+    public void Mild_regimes_are_wetter_than_cold_ones()
+    {
+        // Climate.RegimeWetCorrelation > 0 (from memory: in westerly maritime climates mild spells tend to be wet).
+        var order = Enumerable.Range(0, LongWeather.Days).OrderBy(t => LongWeather.RegimeC[t]).ToArray();
+        var third = order.Length / 3;
+        var coldWet = order.Take(third).Average(t => LongWeather.Wet[t] ? 1.0 : 0.0);
+        var mildWet = order.Skip(order.Length - third).Average(t => LongWeather.Wet[t] ? 1.0 : 0.0);
+        Assert.True(mildWet > coldWet, $"wet-day share {mildWet:F3} in the mildest third of days, {coldWet:F3} in the coldest");
+    }
+
+    [Fact]
+    public void Onset_and_melt_out_vary_by_weeks_from_season_to_season_at_mid_elevation()
+    {
+        // From memory: at a mid-elevation station the year-to-year sd of snow onset and melt-out is about 2–3 weeks;
+        // the bounds allow 10–30 days. The regimes move them independently: |r(onset, melt-out)| stays small.
+        var values = SeasonMetricsCalc.Compute(SnowSimulator.Simulate(DefaultLengthWeather, new PlaceInputs(1000, 15, 47, 0), 21), DefaultLengthWeather);
+        Assert.All(values, v => Assert.True(v.Onset.HasValue, "a 1,000 m station has cover every season"));
+        var onset = values.Select(v => (double)v.Onset!.Value).ToArray();
+        var melt = values.Select(v => (double)v.Meltout!.Value).ToArray();
+        Assert.InRange(Sd(onset), 10, 30);
+        Assert.InRange(Sd(melt), 10, 30);
+        Assert.InRange(Correlation(onset, melt), -0.5, 0.5);
     }
 
     [Fact]

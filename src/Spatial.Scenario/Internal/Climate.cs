@@ -45,8 +45,46 @@ internal static class Climate
     /// <summary>AR(1) coefficient of the regional day-to-day anomaly (from memory: daily temperature lag-1 autocorrelation about 0.6–0.8).</summary>
     public const double DailyAnomalyAr = 0.75;
 
-    /// <summary>Standard deviation of the regional day-to-day anomaly, °C (invented; maritime).</summary>
-    public const double DailyAnomalySdC = 2.5;
+    /// <summary>
+    /// Standard deviation of the regional day-to-day anomaly, °C (invented; maritime). Together with the weather-regime
+    /// anomaly (<see cref="RegimeSdC"/>) the regional daily anomaly has an sd of about 2.7 °C (√(2.0² + 1.8²); before the regimes were added, 2.5 °C from the day-to-day part alone) and a lag-1 autocorrelation of about 0.85.
+    /// </summary>
+    public const double DailyAnomalySdC = 2.0;
+
+    /// <summary>
+    /// E-folding time of the weather-regime temperature anomaly, days: an AR(1) at daily step with coefficient
+    /// exp(−1/τ) (from memory: synoptic weather regimes — blocked or zonal spells — persist for weeks, so that a whole
+    /// month can run cold or mild).
+    /// </summary>
+    public const double RegimeEFoldingDays = 30;
+
+    /// <summary>
+    /// Standard deviation of the weather-regime temperature anomaly, °C (from memory: monthly-mean temperature anomalies
+    /// of about 1.5–2 °C in mid-latitude maritime winters). It moves onset and melt-out independently of each other and
+    /// of the winter's total snowfall, because early and late season fall in different regimes.
+    /// </summary>
+    public const double RegimeSdC = 1.8;
+
+    /// <summary>
+    /// E-folding time of the slow ocean-driven temperature anomaly, days: an AR(1) at daily step (from memory: mid-latitude
+    /// ocean mixed-layer temperature anomalies persist for about 3–6 months, and an island's air follows its sea).
+    /// </summary>
+    public const double OceanEFoldingDays = 90;
+
+    /// <summary>Standard deviation of the slow ocean-driven temperature anomaly, °C (from memory: sea-surface temperature anomalies of about 0.5–1 °C).</summary>
+    public const double OceanSdC = 0.6;
+
+    /// <summary>
+    /// Correlation of the precipitation regime index with the temperature regime (from memory: in westerly maritime
+    /// climates mild spells tend to be wet and cold, blocked spells dry).
+    /// </summary>
+    public const double RegimeWetCorrelation = 0.3;
+
+    /// <summary>Log-scale effect of one sd of the precipitation regime index on the wet-day probabilities (invented).</summary>
+    public const double RegimeWetChanceLog = 0.25;
+
+    /// <summary>Log-scale effect of one sd of the precipitation regime index on wet-day amounts (mean-preserving; invented).</summary>
+    public const double RegimeAmountLog = 0.2;
 
     /// <summary>Standard deviation of the local (station) day-to-day noise, °C (invented).</summary>
     public const double LocalNoiseSdC = 0.7;

@@ -5,12 +5,13 @@ namespace Spatial.Scenario.Internal;
 /// <summary>
 /// The weather shared by the whole island, one value per calendar day from 1 September of the first season to
 /// 31 August after the last (29 February included: the weather goes on; the season calendar drops that day): the
-/// regional year-to-year and day-to-day temperature anomalies (AR(1)), the warming trend, and the regional wet/dry
-/// Markov chain with gamma-distributed unit amounts. Stations add their own climate and local noise.
+/// regional year-to-year, ocean-driven, weather-regime and day-to-day temperature anomalies (each AR(1)), the warming trend, and the
+/// regional wet/dry Markov chain with gamma-distributed unit amounts, both modulated by a precipitation regime index
+/// that is partly correlated with the temperature regime. Stations add their own climate and local noise.
 /// </summary>
 internal sealed class RegionalWeather
 {
-    private RegionalWeather(int firstSeason, int seasons, DateOnly[] dates, int[] seasonIndex, int[] seasonDay, double[] cosDoy, double[] sinDoy, double[] anomalyC, bool[] wet, double[] unitAmount)
+    private RegionalWeather(int firstSeason, int seasons, DateOnly[] dates, int[] seasonIndex, int[] seasonDay, double[] cosDoy, double[] sinDoy, double[] anomalyC, double[] regimeC, bool[] wet, double[] unitAmount)
     {
         FirstSeason = firstSeason;
         Seasons = seasons;
@@ -20,6 +21,7 @@ internal sealed class RegionalWeather
         CosDoy = cosDoy;
         SinDoy = sinDoy;
         AnomalyC = anomalyC;
+        RegimeC = regimeC;
         Wet = wet;
         UnitAmount = unitAmount;
     }
@@ -45,13 +47,19 @@ internal sealed class RegionalWeather
     /// <summary>sin(2π·doy/365) of each day.</summary>
     public double[] SinDoy { get; }
 
-    /// <summary>Regional temperature anomaly of each day (year-to-year + day-to-day + warming trend), °C.</summary>
+    /// <summary>Regional temperature anomaly of each day (year-to-year + ocean + weather regime + day-to-day + warming trend), °C.</summary>
     public double[] AnomalyC { get; }
+
+    /// <summary>
+    /// The slow part of <see cref="AnomalyC"/>, °C: the weather regime (AR(1), e-folding <see cref="Climate.RegimeEFoldingDays"/>
+    /// days) plus the ocean-driven anomaly (AR(1), e-folding <see cref="Climate.OceanEFoldingDays"/> days).
+    /// </summary>
+    public double[] RegimeC { get; }
 
     /// <summary>True on regionally wet days.</summary>
     public bool[] Wet { get; }
 
-    /// <summary>Regional wet-day amount relative to the mean (unit-mean gamma × seasonal factor); 0 on dry days.</summary>
+    /// <summary>Regional wet-day amount relative to the mean (unit-mean gamma × seasonal factor × regime factor); 0 on dry days.</summary>
     public double[] UnitAmount { get; }
 
     /// <summary>Number of days.</summary>
@@ -72,6 +80,7 @@ internal sealed class RegionalWeather
         var anomaly = new double[n];
         var wet = new bool[n];
         var amount = new double[n];
+        var regime = new double[n];
 
         var rng = new Rng(Rng.Derive(seed, 0x5745415448UL)); // "WEATH"
         var yearAnomaly = new double[seasons];
@@ -84,6 +93,23 @@ internal sealed class RegionalWeather
 
         var daily = rng.Normal() * Climate.DailyAnomalySdC;
         var dailyInnovation = Math.Sqrt(1 - (Climate.DailyAnomalyAr * Climate.DailyAnomalyAr)) * Climate.DailyAnomalySdC;
+
+        // Weather regimes and the ocean anomaly from a stream of their own: a temperature regime and an independent unit
+        // index (the precipitation regime index mixes the two to the documented correlation, keeping unit variance), and
+        // the slower ocean-driven anomaly; all three are unit-variance AR(1) at daily step.
+        var regimeRng = new Rng(Rng.Derive(seed, 0x5245474D45UL)); // "REGME"
+        var regimeAr = Math.Exp(-1 / Climate.RegimeEFoldingDays);
+        var regimeInnovation = Math.Sqrt(1 - (regimeAr * regimeAr));
+        var tempRegime = regimeRng.Normal();
+        var otherRegime = regimeRng.Normal();
+        var oceanAr = Math.Exp(-1 / Climate.OceanEFoldingDays);
+        var oceanInnovation = Math.Sqrt(1 - (oceanAr * oceanAr));
+        var ocean = regimeRng.Normal();
+        var rho = Climate.RegimeWetCorrelation;
+        var mix = Math.Sqrt(1 - (rho * rho));
+        var chanceLog = Climate.RegimeWetChanceLog;
+        var amountLog = Climate.RegimeAmountLog;
+
         var wasWet = false;
         var midYears = seasons / 2.0;
         for (var t = 0; t < n; t++)
@@ -107,21 +133,32 @@ internal sealed class RegionalWeather
 
             var seasonDayForTrend = leapDay ? 180 : day;
             var years = s + ((seasonDayForTrend + 0.5) / SeasonCalendar.DaysPerSeason) - midYears;
-            anomaly[t] = yearAnomaly[s] + daily + (Climate.WarmingCPerDecade * years / 10);
+            regime[t] = (Climate.RegimeSdC * tempRegime) + (Climate.OceanSdC * ocean);
+            anomaly[t] = yearAnomaly[s] + regime[t] + daily + (Climate.WarmingCPerDecade * years / 10);
             daily = (Climate.DailyAnomalyAr * daily) + (dailyInnovation * rng.Normal());
+            var wetIndex = (rho * tempRegime) + (mix * otherRegime);
+            tempRegime = (regimeAr * tempRegime) + (regimeInnovation * regimeRng.Normal());
+            otherRegime = (regimeAr * otherRegime) + (regimeInnovation * regimeRng.Normal());
+            ocean = (oceanAr * ocean) + (oceanInnovation * regimeRng.Normal());
+
+            // Wet regimes raise the wet-day chances and amounts by log-normal factors exp(aZ − a²/2) and exp(bZ − b²/2 − ab),
+            // whose product has unit mean over the regimes (E[e^((a+b)Z)] = e^((a+b)²/2)): the regimes move precipitation
+            // between spells and hardly add to the mean (+2.4 % over 150 seasons, from the wet-spell persistence).
+            var chanceFactor = Math.Exp((chanceLog * wetIndex) - (0.5 * chanceLog * chanceLog));
+            var amountFactor = Math.Exp((amountLog * wetIndex) - (0.5 * amountLog * amountLog) - (chanceLog * amountLog));
 
             // Wetter winters: the cosine peaks in mid-January (doy 15).
             var winter = Math.Cos(2 * Math.PI * (doy - 15) / 365.0);
             var p = wasWet
-                ? Math.Min(0.95, Climate.WetAfterWet * (1 + (Climate.WetSeasonality * winter)))
-                : Math.Min(0.95, Climate.WetAfterDry * (1 + (Climate.WetSeasonality * winter)));
+                ? Math.Min(0.95, Climate.WetAfterWet * (1 + (Climate.WetSeasonality * winter)) * chanceFactor)
+                : Math.Min(0.95, Climate.WetAfterDry * (1 + (Climate.WetSeasonality * winter)) * chanceFactor);
             var u = rng.NextDouble();
             var g = rng.Gamma(Climate.AmountShape) / Climate.AmountShape;
             wasWet = u < p;
             wet[t] = wasWet;
-            amount[t] = wasWet ? g * (1 + (Climate.AmountSeasonality * winter)) : 0;
+            amount[t] = wasWet ? g * (1 + (Climate.AmountSeasonality * winter)) * amountFactor : 0;
         }
 
-        return new RegionalWeather(firstSeason, seasons, dates, seasonIndex, seasonDay, cos, sin, anomaly, wet, amount);
+        return new RegionalWeather(firstSeason, seasons, dates, seasonIndex, seasonDay, cos, sin, anomaly, regime, wet, amount);
     }
 }

@@ -23,6 +23,13 @@ internal static class TruthJson
         ("year_anomaly_sd_c", Climate.YearAnomalySdC, "degC", "from memory"),
         ("daily_anomaly_ar", Climate.DailyAnomalyAr, "1", "from memory"),
         ("daily_anomaly_sd_c", Climate.DailyAnomalySdC, "degC", "invented"),
+        ("regime_e_folding_days", Climate.RegimeEFoldingDays, "days", "from memory"),
+        ("regime_sd_c", Climate.RegimeSdC, "degC", "from memory"),
+        ("ocean_e_folding_days", Climate.OceanEFoldingDays, "days", "from memory"),
+        ("ocean_sd_c", Climate.OceanSdC, "degC", "from memory"),
+        ("regime_wet_correlation", Climate.RegimeWetCorrelation, "1", "from memory"),
+        ("regime_wet_chance_log", Climate.RegimeWetChanceLog, "1", "invented"),
+        ("regime_amount_log", Climate.RegimeAmountLog, "1", "invented"),
         ("local_noise_sd_c", Climate.LocalNoiseSdC, "degC", "invented"),
         ("warming_c_per_decade", Climate.WarmingCPerDecade, "degC/decade", "invented"),
         ("wet_after_dry", Climate.WetAfterDry, "probability", "from memory"),
@@ -83,6 +90,7 @@ internal static class TruthJson
         ("coast_km", "Planar distance in UTM zone 25N from the station to the nearest land-polygon boundary (coastline and islets), km; within 0.05 % of the geodesic distance."),
         ("finite_difference", "For each station, a central difference of its season-mean metric when one generator input moves and everything else, including every random number, stays: elevation +-100 m (per km), coast distance +-1 km (per 10 km), latitude +-0.05 deg (per degree), a uniform temperature offset +-0.15 degC (per 0.3 degC = per decade of the trend); a step that would go below 0 is moved up to start at 0. onset/meltout differences average the seasons with cover in both runs and need such cover in at least half the seasons; the region value is the mean over the stations where it is defined (timing_stations for onset/meltout)."),
         ("ols", "Ordinary least squares over the stations of the station-mean metric on [1, elevation_true_m/1000, coast_km/10, latitude]: what a regression with exactly these predictors estimates from perfect data. Stations with cover in fewer than half the seasons are left out of the onset_day and meltout_day fits."),
+        ("ols_median", "As ols, with the station-median metric as the response (same stations, same predictors): what a regression of station medians estimates from perfect data. Means and medians part where a metric's season values are skewed (onset_day: a few very early first snowfalls)."),
         ("realised_trend_per_decade", "Mean over stations of the least-squares slope of each season value on the season year, times 10 (onset/meltout over seasons with cover, stations with cover in at least half the seasons)."),
         ("per_decade_warming", "The expected change per decade of the 0.3 degC/decade warming: the finite difference for a uniform +-0.15 degC offset."),
     ];
@@ -144,21 +152,8 @@ internal static class TruthJson
             Metrics(w, "per_decade_warming", e.PerDecadeWarming);
             w.WriteEndObject();
             Metrics(w, "realised_trend_per_decade", e.PerDecadeRealised);
-            w.WriteStartArray("ols");
-            foreach (var m in e.Ols)
-            {
-                w.WriteStartObject();
-                w.WriteString("response", m.Response);
-                w.WriteNumber("stations", m.Stations);
-                Num(w, "intercept", m.Intercept);
-                Num(w, "elevation_km", m.ElevationKm);
-                Num(w, "coast_10km", m.Coast10Km);
-                Num(w, "latitude_deg", m.LatitudeDeg);
-                Num(w, "r2", m.R2);
-                w.WriteEndObject();
-            }
-
-            w.WriteEndArray();
+            Ols(w, "ols", e.Ols);
+            Ols(w, "ols_median", e.OlsMedian);
             w.WriteEndObject();
         }
 
@@ -239,6 +234,25 @@ internal static class TruthJson
         w.WriteString("first", Date(span.First));
         w.WriteString("last", Date(span.Last));
         w.WriteEndObject();
+    }
+
+    private static void Ols(Utf8JsonWriter w, string name, IReadOnlyList<OlsEffect> models)
+    {
+        w.WriteStartArray(name);
+        foreach (var m in models)
+        {
+            w.WriteStartObject();
+            w.WriteString("response", m.Response);
+            w.WriteNumber("stations", m.Stations);
+            Num(w, "intercept", m.Intercept);
+            Num(w, "elevation_km", m.ElevationKm);
+            Num(w, "coast_10km", m.Coast10Km);
+            Num(w, "latitude_deg", m.LatitudeDeg);
+            Num(w, "r2", m.R2);
+            w.WriteEndObject();
+        }
+
+        w.WriteEndArray();
     }
 
     private static void Metrics(Utf8JsonWriter w, string name, SnowMetrics m)
