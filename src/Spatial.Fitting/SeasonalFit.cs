@@ -99,11 +99,18 @@ public static class SeasonalFit
         StageTimer.Lap(sw, "projection and metrics");
         var correlations = Correlations(scores, train, k, po);
         StageTimer.Lap(sw, "correlations");
-        var labels = Interpreter.Label(components, correlations, options.LabelMinCorrelation);
+        var partials = Interpreter.PartialCorrelations(scores.Coefficient, (r, m) => scores.Metrics(r)[m], k, SeasonMetrics.Names.Count, train);
+        StageTimer.Lap(sw, "partial correlations");
+        var labels = Interpreter.Label(components, partials, options.LabelMinCorrelation);
         for (var c = 0; c < k; c++)
         {
             if (labels[c].Sign < 0)
             {
+                for (var m = 0; m < partials[c].Length; m++)
+                {
+                    partials[c][m] = -partials[c][m];
+                }
+
                 for (var d = 0; d < Layout.Days; d++)
                 {
                     components[c][d] = -components[c][d];
@@ -179,7 +186,12 @@ public static class SeasonalFit
             labels[c].Label,
             Enumerable.Range(0, SeasonMetrics.Names.Count).ToDictionary(m => SeasonMetrics.Names[m], m => correlations[c][m], StringComparer.Ordinal),
             labels[c].Metric,
-            labels[c].Rule)).ToArray();
+            labels[c].Rule)
+        {
+            PartialCorrelations = Enumerable.Range(0, SeasonMetrics.Names.Count).ToDictionary(m => SeasonMetrics.Names[m], m => partials[c][m], StringComparer.Ordinal),
+            Scores = Enumerable.Range(0, 3).ToDictionary(i => Interpreter.ScoreNames[i], i => Interpreter.Scores(partials[c])[i], StringComparer.Ordinal),
+            Aspects = Interpreter.Aspects(partials[c], options.LabelMinCorrelation),
+        }).ToArray();
         var interpretation = Selections.Build(matrix, scores, train, basis, labelRecords, options);
         StageTimer.Lap(sw, "selections");
         var stations = StationSummaries.Build(scores, train, po);

@@ -52,6 +52,9 @@ internal sealed class GappyProjector
 
     public double Ridge { get; }
 
+    /// <summary>The mean curve (NaN on days never observed in training).</summary>
+    public double[] Mean => mean;
+
     /// <summary>Components day-major [365 × K] (zero on unusable days).</summary>
     public double[] ComponentsByDay => byDay;
 
