@@ -181,23 +181,27 @@ internal static class MetricCalculator
 
         var longest = longestMaybe == longestSnow ? longestSnow : double.NaN;
 
-        // Peak: the largest observed depth (bridged and modelled days have none).
-        var peak = double.NegativeInfinity;
-        var peakDay = -1;
-        for (var i = 0; i < d; i++)
+        // Peak: the largest observed depth (bridged and modelled days have none); not searched when already unknowable.
+        var peakDepth = double.NaN;
+        var peakAt = double.NaN;
+        if (!unknownBordersCover && hiddenMax != double.PositiveInfinity)
         {
-            if (!bridged[i] && row[i] > peak)
+            var peak = double.NegativeInfinity;
+            var peakDay = -1;
+            for (var i = 0; i < d; i++)
             {
-                peak = row[i];
-                peakDay = i;
+                if (!bridged[i] && row[i] > peak)
+                {
+                    peak = row[i];
+                    peakDay = i;
+                }
             }
-        }
 
-        var peakKnown = !unknownBordersCover
-            && hiddenMax < peak
-            && !((peakDay > 0 && bridged[peakDay - 1]) || (peakDay < d - 1 && bridged[peakDay + 1]));
-        var peakDepth = peakKnown ? peak : double.NaN;
-        var peakAt = peakKnown && peak >= t ? peakDay : double.NaN;
+            var peakKnown = hiddenMax < peak
+                && !((peakDay > 0 && bridged[peakDay - 1]) || (peakDay < d - 1 && bridged[peakDay + 1]));
+            peakDepth = peakKnown ? peak : double.NaN;
+            peakAt = peakKnown && peak >= t ? peakDay : double.NaN;
+        }
 
         if (anyUnknown)
         {
