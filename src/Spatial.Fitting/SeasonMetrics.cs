@@ -14,7 +14,7 @@ namespace Spatial.Fitting;
 /// <param name="MeltoutDay">Last snow-covered day; unknown when any later day is of unknown state.</param>
 /// <param name="LongestCoverDays">Longest run of snow-covered days (observed and bridged); unknown when an unknown stretch could make a longer run.</param>
 /// <param name="SnowDays">Snow-covered days, observed plus bridged; unknown when any day is of unknown state.</param>
-/// <param name="PeakDepthMm">Largest observed depth, mm; unknown when an unknown-state gap borders cover, when the maximum borders a bridged gap, or when an unknown-state gap between bare days could hold it (the season's reconstruction there reaches the observed maximum; always so without a model).</param>
+/// <param name="PeakDepthMm">Largest observed depth, mm; unknown when that day borders a missing day, or when an unknown-state gap could hold a larger depth: the season's reconstruction somewhere in the gap comes within 2 × the season's RMS misfit (on its observed days) of the observed maximum; without a model, any unknown-state gap.</param>
 /// <param name="PeakDay">Day of <paramref name="PeakDepthMm"/> (first on ties); unknown as it, and when the peak is below the threshold.</param>
 /// <param name="CentroidDay">Depth-weighted mean day Σ d·x_d / Σ x_d (bridged days linearly interpolated); unknown when any day is of unknown state or the season has no depth; with modelled-bare days (depth anywhere in [0, threshold)) the middle of the centroid's exact range, reported only when that range is at most 1 day.</param>
 public readonly record struct SeasonMetrics(

@@ -173,7 +173,7 @@ public sealed class SeasonMetricsTests
         Assert.True(double.IsNaN(m.MeltoutDay));
         Assert.True(double.IsNaN(m.SnowDays));
         Assert.True(double.IsNaN(m.CentroidDay));
-        Assert.Equal(300, m.PeakDepthMm); // the gap is flanked by bare ground and the season's curve there (25 mm) stays below 300 mm
+        Assert.Equal(300, m.PeakDepthMm); // the season's curve in the gap (25 mm) stays below 300 mm minus 2 RMS misfits (2 × 76.9 mm: the flat-zero fit misses the block; √((139·100² + 300²)/250))
         rec[300] = 300;
         Assert.True(double.IsNaN(Modelled(NoSummer(), rec).PeakDepthMm)); // now the gap could hold the maximum
     }
@@ -191,9 +191,53 @@ public sealed class SeasonMetricsTests
         Assert.Equal(0, m.ModelledBareDays);
         Assert.True(double.IsNaN(m.MeltoutDay));
         Assert.True(double.IsNaN(m.SnowDays));
-        Assert.True(double.IsNaN(m.PeakDepthMm)); // an unknown gap borders cover
         Assert.True(double.IsNaN(m.LongestCoverDays));
         Assert.Equal(60, m.OnsetDay);
+    }
+
+    /// <summary>The reconstruction equals <paramref name="curve"/> on observed days plus <paramref name="offsetMm"/> (so the RMS misfit is |offset|), and <paramref name="gapMm"/> on missing days.</summary>
+    private static double[] Fitted(float[] curve, double gapMm, double offsetMm = 0) =>
+        curve.Select(x => float.IsNaN(x) ? gapMm : x + offsetMm).ToArray();
+
+    [Fact]
+    public void A_short_gap_at_the_melt_out_edge_keeps_the_edge_unknown_but_not_a_peak_the_curve_puts_far_higher()
+    {
+        var c = Block(60, 199);
+        c[120] = 300f;
+        c[200] = c[201] = float.NaN; // snow on 199, bare on 202: the melt-out lies in the gap
+        var m = Modelled(c, Fitted(c, gapMm: 50));
+        Assert.True(double.IsNaN(m.MeltoutDay));
+        Assert.True(double.IsNaN(m.SnowDays));
+        Assert.Equal(300, m.PeakDepthMm); // exact fit (misfit 0) and 50 mm in the gap < 300 mm
+        Assert.Equal(120, m.PeakDay);
+    }
+
+    [Fact]
+    public void A_record_stopping_in_cover_hides_the_peak_only_when_the_seasons_curve_comes_within_two_misfits_of_the_observed_maximum()
+    {
+        var c = Block(60, 199);
+        c[120] = 300f;
+        for (var d = 150; d < 365; d++)
+        {
+            c[d] = float.NaN;
+        }
+
+        Assert.Equal(300, Modelled(c, Fitted(c, gapMm: 100)).PeakDepthMm);
+        Assert.True(double.IsNaN(Modelled(c, Fitted(c, gapMm: 400)).PeakDepthMm)); // the curve says the season went deeper later
+        // RMS misfit 10 mm → margin 2 × 10 = 20 mm: 285 mm is within 20 mm of 300 mm, 275 mm is not.
+        Assert.True(double.IsNaN(Modelled(c, Fitted(c, gapMm: 285, offsetMm: 10)).PeakDepthMm));
+        Assert.Equal(300, Modelled(c, Fitted(c, gapMm: 275, offsetMm: 10)).PeakDepthMm);
+        Assert.True(double.IsNaN(Metrics(c).PeakDepthMm)); // without a model any unknown gap could hold it
+    }
+
+    [Fact]
+    public void A_maximum_next_to_a_missing_day_is_unknown_even_when_the_gap_is_bridged()
+    {
+        var c = Block(60, 199);
+        c[120] = 300f;
+        c[121] = float.NaN; // bridged (snow on both sides), but day 121 could have been deeper
+        Assert.True(double.IsNaN(Modelled(c, Fitted(c, gapMm: 0)).PeakDepthMm));
+        Assert.Equal(140, Modelled(c, Fitted(c, gapMm: 0)).SnowDays);
     }
 
     [Fact]

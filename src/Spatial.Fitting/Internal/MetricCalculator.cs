@@ -12,8 +12,13 @@ namespace Spatial.Fitting.Internal;
 /// threshold on every day of the run: the run is taken as bare. Its depths stay unknown (somewhere in [0, threshold)),
 /// only its state is taken; the days are counted in <see cref="SeasonMetrics.ModelledBareDays"/>.</item>
 /// <item>Otherwise <b>unknown state</b>. In particular a run touching cover on either side stays unknown: it may hide
-/// the season's edge, a longer cover run, or the peak.</item>
+/// the season's edge or a longer cover run.</item>
 /// </list>
+/// The peak depth is the largest observed depth; it is unknown when that day borders a missing day, or when an
+/// unknown-state run could hold a larger depth: the season's reconstruction somewhere in the run comes within
+/// <see cref="PeakMarginMisfits"/> × the season's RMS misfit of the observed maximum (always so without a model). A
+/// short gap at an edge, or a record that stops in a thin late-season pack, therefore no longer hides a peak the season's
+/// own curve puts months away and hundreds of millimetres higher.
 /// A metric is unknown when some assignment of the unknown-state days could change it (onset, melt-out, longest cover,
 /// snow days), see <see cref="SeasonMetrics"/>. The model only ever decides whether a gap flanked by bare ground stayed
 /// bare; no depth and no edge is taken from it.
@@ -26,6 +31,13 @@ internal static class MetricCalculator
     /// consistent with the observations). Our choice: the centroid is a day index.
     /// </summary>
     public const double CentroidToleranceDays = 1.0;
+
+    /// <summary>
+    /// An unknown-state gap could hold the season's largest depth unless the season's reconstruction stays below the
+    /// observed maximum by at least this many times the season's RMS misfit on its observed days. Our choice (two
+    /// standard errors of the fit).
+    /// </summary>
+    public const double PeakMarginMisfits = 2.0;
 
     private const byte Bare = 0;
     private const byte Snow = 1;
@@ -80,11 +92,10 @@ internal static class MetricCalculator
         }
 
         var anyUnknown = false;
-        var unknownBordersCover = false;
         var modelledDays = 0;
 
-        // Largest reconstruction inside an unknown run flanked only by bare days (+∞ when there is no model): such a run
-        // could hold the season's largest depth only if the season's own curve reaches the observed maximum there.
+        // Largest reconstruction inside any unknown-state run (+∞ without a model): such a run could hold the season's
+        // largest depth only if the season's own curve comes near the observed maximum there.
         var hiddenMax = double.NegativeInfinity;
         for (var i = 0; i < d;)
         {
@@ -111,10 +122,10 @@ internal static class MetricCalculator
                 fill = state[a - 1];
                 bridge = true;
             }
-            else if (leftBare && rightBare)
+            else
             {
                 var top = model ? ReconstructionMax(mean, componentsByDay, coefficients, a, b) : double.PositiveInfinity;
-                if (top < t)
+                if (leftBare && rightBare && top < t)
                 {
                     fill = Bare;
                     modelledDays += length;
@@ -123,10 +134,6 @@ internal static class MetricCalculator
                 {
                     hiddenMax = Math.Max(hiddenMax, top);
                 }
-            }
-            else
-            {
-                unknownBordersCover = true;
             }
 
             for (var j = a; j <= b; j++)
@@ -184,21 +191,22 @@ internal static class MetricCalculator
         // Peak: the largest observed depth (bridged and modelled days have none); not searched when already unknowable.
         var peakDepth = double.NaN;
         var peakAt = double.NaN;
-        if (!unknownBordersCover && hiddenMax != double.PositiveInfinity)
+        if (hiddenMax != double.PositiveInfinity)
         {
             var peak = double.NegativeInfinity;
             var peakDay = -1;
             for (var i = 0; i < d; i++)
             {
-                if (!bridged[i] && row[i] > peak)
+                if (!float.IsNaN(row[i]) && row[i] > peak)
                 {
                     peak = row[i];
                     peakDay = i;
                 }
             }
 
-            var peakKnown = hiddenMax < peak
-                && !((peakDay > 0 && bridged[peakDay - 1]) || (peakDay < d - 1 && bridged[peakDay + 1]));
+            var bordersGap = (peakDay > 0 && float.IsNaN(row[peakDay - 1])) || (peakDay < d - 1 && float.IsNaN(row[peakDay + 1]));
+            var peakKnown = !bordersGap
+                && (hiddenMax == double.NegativeInfinity || hiddenMax < peak - (PeakMarginMisfits * RmsMisfit(row, mean, componentsByDay, coefficients)));
             peakDepth = peakKnown ? peak : double.NaN;
             peakAt = peakKnown && peak >= t ? peakDay : double.NaN;
         }
@@ -210,6 +218,33 @@ internal static class MetricCalculator
 
         var centroid = Centroid(row, bridged, state, t, modelledDays);
         return new SeasonMetrics(onset, meltout, longest, snowDays, peakDepth, peakAt, centroid) { ModelledBareDays = modelledDays };
+    }
+
+    /// <summary>√(mean over observed days with a mean of (x_d − m_d − Σ_k c_k v_kd)²), mm.</summary>
+    private static double RmsMisfit(ReadOnlySpan<float> row, ReadOnlySpan<double> mean, ReadOnlySpan<double> byDay, ReadOnlySpan<double> c)
+    {
+        var k = c.Length;
+        double sum = 0;
+        var n = 0;
+        for (var j = 0; j < row.Length; j++)
+        {
+            if (float.IsNaN(row[j]) || double.IsNaN(mean[j]))
+            {
+                continue;
+            }
+
+            var e = row[j] - mean[j];
+            var v = byDay.Slice(j * k, k);
+            for (var q = 0; q < k; q++)
+            {
+                e -= c[q] * v[q];
+            }
+
+            sum += e * e;
+            n++;
+        }
+
+        return n > 0 ? Math.Sqrt(sum / n) : double.PositiveInfinity;
     }
 
     /// <summary>Largest m_d + Σ_k c_k v_kd over days a…b; +∞ when the mean is NaN on one of them.</summary>
