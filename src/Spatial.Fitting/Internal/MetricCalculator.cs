@@ -52,6 +52,8 @@ internal static class MetricCalculator
     /// Metrics of <paramref name="row"/> (365 days, NaN = missing). <paramref name="mean"/> (365, NaN = never observed),
     /// <paramref name="componentsByDay"/> (day-major 365 × K) and <paramref name="coefficients"/> (K) give the season's
     /// reconstruction for the modelled-bare rule; empty spans (or a NaN coefficient) switch that rule off.
+    /// <paramref name="rmsMisfitMm"/> is the season's RMS misfit on its observed days when the caller already has it
+    /// (the gappy projection does); NaN = compute it here.
     /// </summary>
     public static SeasonMetrics Compute(
         ReadOnlySpan<float> row,
@@ -60,7 +62,8 @@ internal static class MetricCalculator
         Span<bool> bridged,
         ReadOnlySpan<double> mean,
         ReadOnlySpan<double> componentsByDay,
-        ReadOnlySpan<double> coefficients)
+        ReadOnlySpan<double> coefficients,
+        double rmsMisfitMm = double.NaN)
     {
         var d = row.Length;
         var t = options.ThresholdMm;
@@ -206,7 +209,7 @@ internal static class MetricCalculator
 
             var bordersGap = (peakDay > 0 && float.IsNaN(row[peakDay - 1])) || (peakDay < d - 1 && float.IsNaN(row[peakDay + 1]));
             var peakKnown = !bordersGap
-                && (hiddenMax == double.NegativeInfinity || hiddenMax < peak - (PeakMarginMisfits * RmsMisfit(row, mean, componentsByDay, coefficients)));
+                && (hiddenMax == double.NegativeInfinity || hiddenMax < peak - (PeakMarginMisfits * (double.IsNaN(rmsMisfitMm) ? RmsMisfit(row, mean, componentsByDay, coefficients) : rmsMisfitMm)));
             peakDepth = peakKnown ? peak : double.NaN;
             peakAt = peakKnown && peak >= t ? peakDay : double.NaN;
         }

@@ -25,8 +25,8 @@ internal static class Scoring
             {
                 var row = span.Slice(r * Layout.Days, Layout.Days);
                 var coef = coefficients.AsSpan(r * k, k);
-                projector.Project(row, coef, residuals.AsSpan(r * (k + 1), k + 1), scratch);
-                metrics[r] = MetricCalculator.Compute(row, metricOptions, state, bridged, projector.Mean, projector.ComponentsByDay, coef);
+                projector.Project(row, coef, residuals.AsSpan(r * (k + 1), k + 1), scratch, out var misfit);
+                metrics[r] = MetricCalculator.Compute(row, metricOptions, state, bridged, projector.Mean, projector.ComponentsByDay, coef, misfit);
             }
 
             var total = Interlocked.Add(ref done, chunks[c].End - chunks[c].Start);
