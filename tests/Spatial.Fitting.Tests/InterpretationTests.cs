@@ -72,7 +72,7 @@ public sealed class InterpretationTests
     /// both edges together and a stretch moves them apart; 10 % of days removed at random. By construction amount, timing and
     /// duration vary independently.
     /// </summary>
-    private static (SeasonMatrix Matrix, double[] Amount, double[] Shift, double[] Stretch) Templates(int rows, int seed)
+    internal static (SeasonMatrix Matrix, double[] Amount, double[] Shift, double[] Stretch) Templates(int rows, int seed)
     {
         var rng = new Random(seed);
         var data = new float[rows * 365];
