@@ -48,6 +48,7 @@ public static class FitFiles
             header.AddRange(Enumerable.Range(0, k + 1).Select(c => Inv($"residual_{c}")));
             header.AddRange(SeasonMetrics.Names);
             header.Add("below_min_days");
+            header.Add("modelled_bare_days");
             if (apply is not null)
             {
                 header.AddRange(Enumerable.Range(1, k).Select(c => Inv($"z_c{c}")));
@@ -81,6 +82,7 @@ public static class FitFiles
                 }
 
                 sb.Append(',').Append(key.BelowMinDays ? "true" : "false");
+                sb.Append(',').Append(m.ModelledBareDays.ToString(CultureInfo.InvariantCulture));
                 if (apply is not null)
                 {
                     for (var c = 0; c < k; c++)
@@ -155,6 +157,27 @@ public static class FitFiles
                 foreach (var name in SeasonMetrics.Names)
                 {
                     JsonOut.Number(w, name, l.Correlations[name]);
+                }
+
+                w.WriteEndObject();
+                w.WriteStartObject("partial_correlations");
+                foreach (var name in SeasonMetrics.Names)
+                {
+                    JsonOut.Number(w, name, l.PartialCorrelations.TryGetValue(name, out var p) ? p : double.NaN);
+                }
+
+                w.WriteEndObject();
+                w.WriteStartArray("aspects");
+                foreach (var a in l.Aspects)
+                {
+                    w.WriteStringValue(a);
+                }
+
+                w.WriteEndArray();
+                w.WriteStartObject("scores");
+                foreach (var (name, value) in l.Scores)
+                {
+                    JsonOut.Number(w, name, value);
                 }
 
                 w.WriteEndObject();

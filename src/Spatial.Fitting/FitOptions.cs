@@ -19,7 +19,7 @@ public sealed record MetricOptions(double ThresholdMm = 25.0, int BridgeDays = 3
 /// <param name="Metrics">Season-metric rules.</param>
 /// <param name="SelectionResidual">Seasons enter the per-component selections only when their residual after that component is below this (0…1).</param>
 /// <param name="SelectionCount">How many seasons each end of a selection lists.</param>
-/// <param name="LabelMinCorrelation">A component is labelled amount/timing/duration only when |r| with the matching metric is at least this; otherwise "other".</param>
+/// <param name="LabelMinCorrelation">A component is labelled amount/timing/duration only when the |score| of that label (from partial correlations with the metrics, see the interpretation rules) is at least this; otherwise "other".</param>
 /// <param name="MaxThreads">Upper bound on threads (null = all cores). Results do not depend on it.</param>
 /// <param name="MinObservedDays">Seasons with fewer observed days are left out of the basis estimation (as are those flagged below the import's minimum); they are still projected and reported.</param>
 public sealed record FitOptions(

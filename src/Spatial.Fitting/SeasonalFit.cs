@@ -22,6 +22,15 @@ namespace Spatial.Fitting;
 /// <para>Sampling errors: North et al. (1982), δλ_k = λ_k √(2/N*), N* from the leading coefficients (see
 /// <c>Statistics.EffectiveSeasons</c>: design effect of seasons sharing a year, and lag-1 autocorrelation within stations);
 /// components k and k+1 are flagged not separable when λ_k − λ_{k+1} ≤ δλ_k.</para>
+/// <para>Season metrics (threshold and bridge length in <see cref="MetricOptions"/>): a short gap between days of the
+/// same state is bridged; a gap flanked only by observed bare days (or by the season's end and a bare day) is
+/// <i>modelled bare</i> when the season's own reconstruction m + Σ c_k v_k stays below the threshold throughout it
+/// (counted in <see cref="SeasonMetrics.ModelledBareDays"/>, never given a depth); every other gap — in particular any
+/// gap touching cover — is of unknown state, and a metric it could change is unknown (<see cref="SeasonMetrics"/>).</para>
+/// <para>Labels: sequential partial correlations of component k with the metrics given components 1…k−1; scores
+/// amount = p(peak), timing = −(p(onset) + p(melt-out))/2, duration = (p(melt-out) − p(onset))/2; in component order each
+/// component takes its largest free label when |score| ≥ <see cref="FitOptions.LabelMinCorrelation"/>
+/// (<see cref="ComponentLabel"/>).</para>
 /// <para>Results do not depend on the thread count: rows are cut into chunks by row count only, each chunk summed
 /// alone, chunks added in order.</para>
 /// </remarks>
@@ -99,11 +108,18 @@ public static class SeasonalFit
         StageTimer.Lap(sw, "projection and metrics");
         var correlations = Correlations(scores, train, k, po);
         StageTimer.Lap(sw, "correlations");
-        var labels = Interpreter.Label(components, correlations, options.LabelMinCorrelation);
+        var partials = Interpreter.PartialCorrelations(scores.Coefficient, (r, m) => scores.Metrics(r)[m], k, SeasonMetrics.Names.Count, train);
+        StageTimer.Lap(sw, "partial correlations");
+        var labels = Interpreter.Label(components, partials, options.LabelMinCorrelation);
         for (var c = 0; c < k; c++)
         {
             if (labels[c].Sign < 0)
             {
+                for (var m = 0; m < partials[c].Length; m++)
+                {
+                    partials[c][m] = -partials[c][m];
+                }
+
                 for (var d = 0; d < Layout.Days; d++)
                 {
                     components[c][d] = -components[c][d];
@@ -179,7 +195,12 @@ public static class SeasonalFit
             labels[c].Label,
             Enumerable.Range(0, SeasonMetrics.Names.Count).ToDictionary(m => SeasonMetrics.Names[m], m => correlations[c][m], StringComparer.Ordinal),
             labels[c].Metric,
-            labels[c].Rule)).ToArray();
+            labels[c].Rule)
+        {
+            PartialCorrelations = Enumerable.Range(0, SeasonMetrics.Names.Count).ToDictionary(m => SeasonMetrics.Names[m], m => partials[c][m], StringComparer.Ordinal),
+            Scores = Enumerable.Range(0, 3).ToDictionary(i => Interpreter.ScoreNames[i], i => Interpreter.Scores(partials[c])[i], StringComparer.Ordinal),
+            Aspects = Interpreter.Aspects(partials[c], options.LabelMinCorrelation),
+        }).ToArray();
         var interpretation = Selections.Build(matrix, scores, train, basis, labelRecords, options);
         StageTimer.Lap(sw, "selections");
         var stations = StationSummaries.Build(scores, train, po);

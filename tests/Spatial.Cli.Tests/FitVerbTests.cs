@@ -61,6 +61,10 @@ public sealed class FitVerbTests : IDisposable
         var header = File.ReadLines(Path.Combine(outDir, "seasons.csv")).First().Split(',');
         string[] expected = ["station", "season", "observed_days", "c1", "c2", "c3", "residual_0", "residual_1", "residual_2", "residual_3", "onset_day", "meltout_day", "longest_cover_days", "snow_days", "peak_depth_mm", "peak_day", "centroid_day"];
         Assert.Equal(expected, header.Take(expected.Length));
+        Assert.Equal(["below_min_days", "modelled_bare_days"], header.Skip(expected.Length)); // added columns, after the contract's
+        var interpretation = File.ReadAllText(Path.Combine(outDir, "interpretation.json"));
+        Assert.Contains("\"partial_correlations\"", interpretation, StringComparison.Ordinal);
+        Assert.Contains("\"aspects\"", interpretation, StringComparison.Ordinal);
         Assert.Equal(91, File.ReadLines(Path.Combine(outDir, "seasons.csv")).Count());
         var stations = File.ReadLines(Path.Combine(outDir, "stations.csv")).First().Split(',');
         Assert.Equal(["station", "seasons", "median_c1", "iqr_c1", "mk_s_c1", "mk_z_c1", "mk_p_c1", "sen_per_decade_c1"], stations.Take(8));

@@ -54,6 +54,9 @@ public sealed class GappyProjectionTests
         projector.Project(row, c, res, new double[projector.ScratchLength]);
         Tolerance.Near(3, c[0], 1e-5, "c1");
         Tolerance.Near(0.8, res[1], 1e-6, "residual_1");
+        // RMS misfit: the part off the span is 4 w with ‖w‖ = 1 over 365 days → √(16/365) mm.
+        projector.Project(row, c, res, new double[projector.ScratchLength], out var misfit);
+        Tolerance.Near(Math.Sqrt(16.0 / 365), misfit, 1e-6, "RMS misfit, mm");
     }
 
     [Fact]

@@ -60,7 +60,88 @@ public sealed class InterpretationTests
         Assert.True(Correlation(centre, r => fit.Seasons.Coefficient(r, t)) < -0.9);
         var label = fit.Interpretation.Labels[t];
         Assert.True(label.Correlations["centroid_day"] < 0);
-        Assert.Equal("centroid_day", label.Basis);
+        Assert.Equal("onset_day+meltout_day", label.Basis);
+        Assert.True(label.Scores["timing"] > 0); // −(p_onset + p_meltout)/2 > 0 after orientation: earlier
+        Assert.Contains("timing", label.Aspects);
+    }
+
+    /// <summary>
+    /// Seasons from one template snowpack, scaled, shifted and stretched independently: depth a·T((d − o)/L) for
+    /// o ≤ d ≤ o + L, T(u) = (27/4)·u²(1 − u) (slow build-up, peak 1 at u = 2/3, quicker melt), with amount a = 800·e^(0.25 g₁) mm,
+    /// length L = 150·e^(0.20 g₃) days and middle o + L/2 = 165 + 12 g₂ days (g independent standard normal), so a shift moves
+    /// both edges together and a stretch moves them apart; 10 % of days removed at random. By construction amount, timing and
+    /// duration vary independently.
+    /// </summary>
+    internal static (SeasonMatrix Matrix, double[] Amount, double[] Shift, double[] Stretch) Templates(int rows, int seed)
+    {
+        var rng = new Random(seed);
+        var data = new float[rows * 365];
+        var amount = new double[rows];
+        var shift = new double[rows];
+        var stretch = new double[rows];
+        var keys = new List<SeasonKey>();
+        for (var r = 0; r < rows; r++)
+        {
+            amount[r] = 800 * Math.Exp(0.25 * Synthetic.Gauss(rng));
+            shift[r] = 12 * Synthetic.Gauss(rng);
+            stretch[r] = Math.Exp(0.20 * Synthetic.Gauss(rng));
+            var length = 150 * stretch[r];
+            var onset = 165 + shift[r] - (length / 2);
+            var observed = 0;
+            for (var d = 0; d < 365; d++)
+            {
+                var u = (d - onset) / length;
+                var depth = u is >= 0 and <= 1 ? amount[r] * 6.75 * u * u * (1 - u) : 0;
+                var missing = rng.NextDouble() < 0.10;
+                data[(r * 365) + d] = missing ? float.NaN : (float)depth;
+                observed += missing ? 0 : 1;
+            }
+
+            keys.Add(new SeasonKey(new StationId($"S{r / 20:00}"), 1980 + (r % 20), observed, false));
+        }
+
+        return (new SeasonMatrix(SeasonCalendar.Default, keys, data), amount, shift, stretch);
+    }
+
+    [Theory]
+    [InlineData(11)]
+    [InlineData(12)]
+    [InlineData(13)]
+    public void Independent_amount_timing_and_duration_get_their_own_labels_with_the_design_signs(int seed)
+    {
+        var (matrix, amount, shift, stretch) = Templates(600, seed);
+        var fit = SeasonalFit.Fit(matrix, new FitOptions(Components: 4));
+        var labels = fit.Basis.Labels;
+        var a = Array.IndexOf(labels, "amount");
+        var t = Array.IndexOf(labels, "timing");
+        var d = Array.IndexOf(labels, "duration");
+        Assert.True(a >= 0 && t >= 0 && d >= 0, string.Join(",", labels));
+        // DESIGN.md signs: amount positive = more snow, timing positive = earlier (smaller shift), duration positive = longer.
+        var ra = Correlation(amount, r => fit.Seasons.Coefficient(r, a));
+        var rt = Correlation(shift, r => fit.Seasons.Coefficient(r, t));
+        var rd = Correlation(stretch, r => fit.Seasons.Coefficient(r, d));
+        Assert.True(ra > 0.5, $"r(amount, c{a + 1}) = {ra}");
+        Assert.True(rt < -0.5, $"r(shift, c{t + 1}) = {rt}");
+        Assert.True(rd > 0.5, $"r(stretch, c{d + 1}) = {rd}");
+        Assert.True(fit.Interpretation.Labels[t].Scores["timing"] > 0);
+        Assert.True(fit.Interpretation.Labels[d].Scores["duration"] > 0);
+        Assert.True(fit.Interpretation.Labels[a].Scores["amount"] > 0);
+    }
+
+    [Fact]
+    public void Partial_correlations_match_the_closed_form_for_one_control()
+    {
+        // With one control z: p(x, y | z) = (r_xy − r_xz r_yz) / √((1 − r_xz²)(1 − r_yz²)) (textbook identity).
+        var rng = new Random(4);
+        var n = 500;
+        var z = Enumerable.Range(0, n).Select(_ => Synthetic.Gauss(rng)).ToArray();
+        var x = z.Select(v => (0.6 * v) + Synthetic.Gauss(rng)).ToArray();
+        var y = Enumerable.Range(0, n).Select(i => (0.8 * z[i]) + (0.3 * x[i]) + Synthetic.Gauss(rng)).ToArray();
+        var coefficient = (int r, int c) => c == 0 ? z[r] : x[r];
+        var p = Spatial.Fitting.Internal.Interpreter.PartialCorrelations(coefficient, (r, _) => y[r], 2, 1, Enumerable.Range(0, n).ToArray());
+        double rxy = Correlation(x, r => y[r]), rxz = Correlation(x, r => z[r]), ryz = Correlation(y, r => z[r]);
+        Tolerance.Near(ryz, p[0][0], 1e-12, "component 1: plain r");
+        Tolerance.Near((rxy - (rxz * ryz)) / Math.Sqrt((1 - (rxz * rxz)) * (1 - (ryz * ryz))), p[1][0], 1e-12, "partial r given component 1");
     }
 
     [Fact]

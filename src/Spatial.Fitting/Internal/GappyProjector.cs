@@ -52,6 +52,9 @@ internal sealed class GappyProjector
 
     public double Ridge { get; }
 
+    /// <summary>The mean curve (NaN on days never observed in training).</summary>
+    public double[] Mean => mean;
+
     /// <summary>Components day-major [365 × K] (zero on unusable days).</summary>
     public double[] ComponentsByDay => byDay;
 
@@ -63,8 +66,13 @@ internal sealed class GappyProjector
     /// Branch-free over days: y_d = x_d − m_d and w_d = 1 on observed usable days, y_d = w_d = 0 otherwise; the normal
     /// equations G = Σ w_d v_d v_dᵀ and b = Σ y_d v_d are summed with 4-wide double vectors over the padded components.
     /// </remarks>
-    public unsafe void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch)
+    public void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch) =>
+        Project(row, coefficients, residuals, scratch, out _);
+
+    /// <summary>Projects one row as <see cref="Project(ReadOnlySpan{float}, Span{double}, Span{double}, Span{double})"/>, and gives the RMS misfit √(Σ_obs (x − m − Σ_k c_k v_k)² / n_obs), mm (NaN without coefficients).</summary>
+    public unsafe void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch, out double rmsMisfitMm)
     {
+        rmsMisfitMm = double.NaN;
         var k = K;
         var g = scratch[..(k * k)];
         var b = scratch.Slice(k * k, k);
@@ -179,7 +187,7 @@ internal sealed class GappyProjector
         }
 
         b.CopyTo(coefficients);
-        Residuals(ys, ws, coefficients, residuals, yy);
+        rmsMisfitMm = Math.Sqrt(Residuals(ys, ws, coefficients, residuals, yy) / n);
     }
 
     /// <summary>Coefficients of a complete (filled) centred row: plain dot products with the components (EM step).</summary>
@@ -202,7 +210,8 @@ internal sealed class GappyProjector
         }
     }
 
-    private unsafe void Residuals(ReadOnlySpan<double> ys, ReadOnlySpan<double> ws, ReadOnlySpan<double> c, Span<double> residuals, double yy)
+    /// <summary>Writes the K+1 residuals and returns the sum of squares after all K components.</summary>
+    private unsafe double Residuals(ReadOnlySpan<double> ys, ReadOnlySpan<double> ws, ReadOnlySpan<double> c, Span<double> residuals, double yy)
     {
         var k = K;
         residuals.Clear();
@@ -246,11 +255,14 @@ internal sealed class GappyProjector
         }
 
         residuals[0] = yy;
+        var sse = residuals[k];
         var scale = Math.Sqrt(yy);
         for (var a = 0; a <= k; a++)
         {
             residuals[a] = scale > 0 ? Math.Sqrt(residuals[a]) / scale : double.NaN;
         }
+
+        return sse;
     }
 }
 

@@ -6,13 +6,21 @@ namespace Spatial.Fitting.Internal;
 /// Labels components from their correlation with the season metrics and orients their signs (DESIGN.md): component 1,
 /// when labelled amount or other, positive = more snow than the mean curve (Σ_d v_1d &gt; 0); a component labelled timing or
 /// duration follows its label's rule even when it is component 1; an amount component positive = deeper peak; a timing
-/// component positive = earlier season (negative r with the centroid day); a duration component positive = longer
-/// cover (positive r with its duration metric); an other component has Σ_d v_d &gt; 0.
+/// component positive = earlier season; a duration component positive = longer season; an other component has
+/// Σ_d v_d &gt; 0.
 /// </summary>
 /// <remarks>
-/// Scores: amount |r(peak_depth_mm)|, timing |r(centroid_day)|, duration the larger of |r(snow_days)| and
-/// |r(longest_cover_days)|. Labels are handed out greedily, largest score first, each label to one component, and only
-/// when the score reaches the minimum correlation; the rest are "other".
+/// <para>Correlations are sequential partial correlations: component k against each metric controlling for components
+/// 1…k−1 (for component 1 the plain Pearson r). Component 1 of a snow climate is mostly amount, and its amount also moves
+/// onset, melt-out and snow days; the partial correlation asks what component k adds to a metric once the earlier
+/// components are accounted for, so a timing mode is not hidden behind the amount mode's large raw correlations.</para>
+/// <para>Scores, from the partial correlations p: amount = p(peak_depth_mm); timing = −(p(onset_day) + p(meltout_day))/2,
+/// the two edges moving together (positive = both earlier); duration = (p(meltout_day) − p(onset_day))/2, the edges moving
+/// apart (positive = longer). Labels are handed out in component order (most variance first): each component takes its
+/// largest |score| among the labels no earlier component has taken, when that |score| reaches the minimum; otherwise it
+/// is "other". Component order, not the size of the score, decides, because a late component's partial correlation is
+/// taken on the little variance the earlier components leave and can approach 1 for a small effect. Each component keeps all three scores, so a component that
+/// also carries a second aspect (the data do not separate them) is visible in the output.</para>
 /// </remarks>
 internal static class Interpreter
 {
@@ -21,46 +29,65 @@ internal static class Interpreter
     public const string Duration = "duration";
     public const string Other = "other";
 
-    private const int Peak = 4;
-    private const int Centroid = 6;
-    private const int SnowDays = 3;
-    private const int LongestCover = 2;
+    /// <summary>Names of the label scores, in the order of <see cref="Scores"/>.</summary>
+    public static readonly string[] ScoreNames = [Amount, Timing, Duration];
 
-    /// <summary>Returns per component: label, metric name and sign (+1/−1) to multiply the component and coefficients by.</summary>
-    public static (string Label, string Metric, int Sign, string Rule)[] Label(double[][] components, double[][] correlations, double minCorrelation)
+    private const int Onset = 0;
+    private const int Meltout = 1;
+    private const int Peak = 4;
+
+    /// <summary>Amount, timing and duration scores from one component's (partial) correlations with the metrics.</summary>
+    public static double[] Scores(double[] p) =>
+        [p[Peak], -(p[Onset] + p[Meltout]) / 2, (p[Meltout] - p[Onset]) / 2];
+
+    /// <summary>The aspects whose |score| reaches <paramref name="minScore"/>, largest |score| first (ties in the order amount, timing, duration).</summary>
+    public static string[] Aspects(double[] partials, double minScore)
+    {
+        var s = Scores(partials);
+        return Enumerable.Range(0, 3)
+            .Where(i => double.IsFinite(s[i]) && Math.Abs(s[i]) >= minScore)
+            .OrderByDescending(i => Math.Abs(s[i])).ThenBy(i => i)
+            .Select(i => ScoreNames[i]).ToArray();
+    }
+
+    /// <summary>Returns per component: label, metric(s) it rests on and sign (+1/−1) to multiply the component and coefficients by.</summary>
+    /// <param name="components">The K components (unit vectors, 365 days).</param>
+    /// <param name="partials">Per component, the partial correlation with each metric given the earlier components.</param>
+    /// <param name="minScore">Least |score| for a label.</param>
+    public static (string Label, string Metric, int Sign, string Rule)[] Label(double[][] components, double[][] partials, double minScore)
     {
         var k = components.Length;
-        var candidates = new List<(double Score, int Component, string Label, int Metric)>();
+        var metricOf = new[] { "peak_depth_mm", "onset_day+meltout_day", "meltout_day-onset_day" };
+        var chosen = new int[k];
+        var taken = new bool[3];
         for (var c = 0; c < k; c++)
         {
-            var r = correlations[c];
-            Add(candidates, c, Amount, Peak, r[Peak]);
-            Add(candidates, c, Timing, Centroid, r[Centroid]);
-            var durationMetric = Score(r[SnowDays]) >= Score(r[LongestCover]) ? SnowDays : LongestCover;
-            Add(candidates, c, Duration, durationMetric, r[durationMetric]);
+            // In component order (most variance first): the component's largest free |score|, if it reaches the minimum.
+            var s = Scores(partials[c]);
+            chosen[c] = -1;
+            var best = minScore;
+            for (var l = 0; l < 3; l++)
+            {
+                var score = double.IsFinite(s[l]) ? Math.Abs(s[l]) : 0;
+                if (!taken[l] && score >= best && (chosen[c] < 0 || score > best))
+                {
+                    chosen[c] = l;
+                    best = score;
+                }
+            }
+
+            if (chosen[c] >= 0)
+            {
+                taken[chosen[c]] = true;
+            }
         }
 
         var result = new (string, string, int, string)[k];
-        var taken = new HashSet<string>(StringComparer.Ordinal);
-        var assigned = new bool[k];
-        foreach (var (score, c, label, metric) in candidates.OrderByDescending(t => t.Score).ThenBy(t => t.Component).ThenBy(t => t.Label, StringComparer.Ordinal))
-        {
-            if (score < minCorrelation || assigned[c] || taken.Contains(label))
-            {
-                continue;
-            }
-
-            assigned[c] = true;
-            taken.Add(label);
-            result[c] = (label, SeasonMetrics.Names[metric], 0, string.Empty);
-            _ = metric;
-        }
-
         for (var c = 0; c < k; c++)
         {
-            var label = assigned[c] ? result[c].Item1 : Other;
-            var metricName = assigned[c] ? result[c].Item2 : string.Empty;
-            var metric = assigned[c] ? IndexOf(metricName) : -1;
+            var label = chosen[c] >= 0 ? ScoreNames[chosen[c]] : Other;
+            var metricName = chosen[c] >= 0 ? metricOf[chosen[c]] : string.Empty;
+            var score = chosen[c] >= 0 ? Scores(partials[c])[chosen[c]] : double.NaN;
             int sign;
             string rule;
             if (c == 0 && label is Amount or Other)
@@ -70,18 +97,18 @@ internal static class Interpreter
             }
             else if (label == Timing)
             {
-                sign = correlations[c][metric] <= 0 ? 1 : -1;
-                rule = "timing: positive = earlier season (negative correlation with centroid_day)";
+                sign = score >= 0 ? 1 : -1;
+                rule = "timing: positive = earlier season (onset and melt-out both earlier: -(p_onset + p_meltout)/2 > 0)";
             }
             else if (label == Duration)
             {
-                sign = correlations[c][metric] >= 0 ? 1 : -1;
-                rule = $"duration: positive = longer season (positive correlation with {metricName})";
+                sign = score >= 0 ? 1 : -1;
+                rule = "duration: positive = longer season (melt-out later and onset earlier: (p_meltout - p_onset)/2 > 0)";
             }
             else if (label == Amount)
             {
-                sign = correlations[c][metric] >= 0 ? 1 : -1;
-                rule = "amount: positive = more snow (positive correlation with peak_depth_mm)";
+                sign = score >= 0 ? 1 : -1;
+                rule = "amount: positive = more snow (positive partial correlation with peak_depth_mm)";
             }
             else
             {
@@ -95,23 +122,183 @@ internal static class Interpreter
         return result;
     }
 
-    private static int IndexOf(string name)
+    /// <summary>
+    /// Sequential partial correlations: for each metric, over the training rows where it and all K coefficients are
+    /// finite, the covariance S of (c_1…c_K, metric); then for component k the partial correlation of c_k and the metric
+    /// given c_1…c_{k−1}, −P_km / √(P_kk P_mm) with P the inverse of S restricted to {c_1…c_k, metric} (for k = 1 the plain r).
+    /// NaN with fewer than K + 3 rows or a singular S.
+    /// </summary>
+    public static double[][] PartialCorrelations(Func<int, int, double> coefficient, Func<int, int, double> metric, int k, int metrics, IReadOnlyList<int> rows)
     {
-        for (var i = 0; i < SeasonMetrics.Names.Count; i++)
+        var result = new double[k][];
+        for (var c = 0; c < k; c++)
         {
-            if (SeasonMetrics.Names[i] == name)
+            result[c] = new double[metrics];
+        }
+
+        var n = k + 1;
+        var z = new double[n];
+        for (var m = 0; m < metrics; m++)
+        {
+            var sum = new double[n];
+            var cross = new double[n * n];
+            var count = 0;
+            foreach (var r in rows)
             {
-                return i;
+                if (!Fill(z, coefficient, metric, r, k, m))
+                {
+                    continue;
+                }
+
+                count++;
+                for (var a = 0; a < n; a++)
+                {
+                    sum[a] += z[a];
+                }
+            }
+
+            if (count < k + 3)
+            {
+                for (var c = 0; c < k; c++)
+                {
+                    result[c][m] = double.NaN;
+                }
+
+                continue;
+            }
+
+            var centre = sum.Select(x => x / count).ToArray();
+            foreach (var r in rows)
+            {
+                if (!Fill(z, coefficient, metric, r, k, m))
+                {
+                    continue;
+                }
+
+                for (var a = 0; a < n; a++)
+                {
+                    var za = z[a] - centre[a];
+                    for (var b = 0; b < n; b++)
+                    {
+                        cross[(a * n) + b] += za * (z[b] - centre[b]);
+                    }
+                }
+            }
+
+            for (var c = 0; c < k; c++)
+            {
+                // Indices c_0…c_c and the metric (index k of the full matrix).
+                var idx = Enumerable.Range(0, c + 1).Append(k).ToArray();
+                var s = new double[idx.Length * idx.Length];
+                for (var a = 0; a < idx.Length; a++)
+                {
+                    for (var b = 0; b < idx.Length; b++)
+                    {
+                        s[(a * idx.Length) + b] = cross[(idx[a] * n) + idx[b]];
+                    }
+                }
+
+                var p = Invert(s, idx.Length);
+                var last = idx.Length - 1;
+                result[c][m] = p is null ? double.NaN : -p[(c * idx.Length) + last] / Math.Sqrt(p[(c * idx.Length) + c] * p[(last * idx.Length) + last]);
             }
         }
 
-        return -1;
+        return result;
     }
 
-    private static double Score(double r) => double.IsFinite(r) ? Math.Abs(r) : 0;
+    private static bool Fill(double[] z, Func<int, int, double> coefficient, Func<int, int, double> metric, int r, int k, int m)
+    {
+        var y = metric(r, m);
+        if (!double.IsFinite(y))
+        {
+            return false;
+        }
 
-    private static void Add(List<(double, int, string, int)> list, int c, string label, int metric, double r) =>
-        list.Add((Score(r), c, label, metric));
+        for (var c = 0; c < k; c++)
+        {
+            z[c] = coefficient(r, c);
+            if (!double.IsFinite(z[c]))
+            {
+                return false;
+            }
+        }
+
+        z[k] = y;
+        return true;
+    }
+
+    /// <summary>Inverse of a small symmetric positive definite matrix by Gauss–Jordan with partial pivoting; null when singular.</summary>
+    private static double[]? Invert(double[] s, int n)
+    {
+        var a = (double[])s.Clone();
+        var inv = new double[n * n];
+        for (var i = 0; i < n; i++)
+        {
+            inv[(i * n) + i] = 1;
+        }
+
+        var scale = 0.0;
+        for (var i = 0; i < n; i++)
+        {
+            scale = Math.Max(scale, Math.Abs(a[(i * n) + i]));
+        }
+
+        for (var col = 0; col < n; col++)
+        {
+            var pivot = col;
+            for (var r = col + 1; r < n; r++)
+            {
+                if (Math.Abs(a[(r * n) + col]) > Math.Abs(a[(pivot * n) + col]))
+                {
+                    pivot = r;
+                }
+            }
+
+            if (!(Math.Abs(a[(pivot * n) + col]) > 1e-12 * scale))
+            {
+                return null;
+            }
+
+            if (pivot != col)
+            {
+                for (var j = 0; j < n; j++)
+                {
+                    (a[(col * n) + j], a[(pivot * n) + j]) = (a[(pivot * n) + j], a[(col * n) + j]);
+                    (inv[(col * n) + j], inv[(pivot * n) + j]) = (inv[(pivot * n) + j], inv[(col * n) + j]);
+                }
+            }
+
+            var d = a[(col * n) + col];
+            for (var j = 0; j < n; j++)
+            {
+                a[(col * n) + j] /= d;
+                inv[(col * n) + j] /= d;
+            }
+
+            for (var r = 0; r < n; r++)
+            {
+                if (r == col)
+                {
+                    continue;
+                }
+
+                var f = a[(r * n) + col];
+                if (f == 0)
+                {
+                    continue;
+                }
+
+                for (var j = 0; j < n; j++)
+                {
+                    a[(r * n) + j] -= f * a[(col * n) + j];
+                    inv[(r * n) + j] -= f * inv[(col * n) + j];
+                }
+            }
+        }
+
+        return inv;
+    }
 
     /// <summary>
     /// Likely cause of a poorly described season: coverage (fewer than half the days observed, or a gap of 30 days or more),

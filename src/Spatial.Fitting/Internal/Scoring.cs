@@ -2,7 +2,7 @@ using Spatial.Core;
 
 namespace Spatial.Fitting.Internal;
 
-/// <summary>Projects every row of a matrix onto a basis and computes its metrics, in parallel; each row is independent, so the result does not depend on the thread count.</summary>
+/// <summary>Projects every row of a matrix onto a basis and computes its metrics (the modelled-bare rule uses the row's own reconstruction), in parallel; each row is independent, so the result does not depend on the thread count.</summary>
 internal static class Scoring
 {
     public static SeasonScores Score(SeasonMatrix matrix, GappyProjector projector, MetricOptions metricOptions, ParallelOptions po, Action<double>? progress)
@@ -24,8 +24,9 @@ internal static class Scoring
             for (var r = chunks[c].Start; r < chunks[c].End; r++)
             {
                 var row = span.Slice(r * Layout.Days, Layout.Days);
-                projector.Project(row, coefficients.AsSpan(r * k, k), residuals.AsSpan(r * (k + 1), k + 1), scratch);
-                metrics[r] = MetricCalculator.Compute(row, metricOptions, state, bridged);
+                var coef = coefficients.AsSpan(r * k, k);
+                projector.Project(row, coef, residuals.AsSpan(r * (k + 1), k + 1), scratch, out var misfit);
+                metrics[r] = MetricCalculator.Compute(row, metricOptions, state, bridged, projector.Mean, projector.ComponentsByDay, coef, misfit);
             }
 
             var total = Interlocked.Add(ref done, chunks[c].End - chunks[c].Start);
