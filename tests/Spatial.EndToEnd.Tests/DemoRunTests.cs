@@ -69,13 +69,31 @@ public sealed class DemoRunTests(DemoRunFixture demo) : IClassFixture<DemoRunFix
     }
 
     [Fact]
-    public void Given_the_demo_region_when_fitted_then_a_timing_or_duration_component_is_found_beside_amount()
+    public void Given_the_demo_region_when_fitted_then_component_1_is_amount_and_carries_a_longer_season()
     {
+        // The generator makes seasons deeper and longer together with elevation (truth.json "effects": duration and peak
+        // both rise per km). On Marrowfell the first component carries amount and duration as one mode: its duration
+        // score (partial correlation of the two edges moving apart) must be clearly positive, i.e. more snow = longer.
         var basis = JsonNode.Parse(File.ReadAllText(Path.Combine(demo.Results, "basis.json")))!;
-        var labels = basis["labels"]!.AsArray().Select(l => l!.GetValue<string>()).ToList();
+        var interpretation = JsonNode.Parse(File.ReadAllText(Path.Combine(demo.Results, "interpretation.json")))!;
+        var first = interpretation["components"]!.AsArray()[0]!;
 
-        Assert.Equal("amount", labels[0]);
-        Assert.True(labels.Contains("timing") || labels.Contains("duration"), $"labels: {string.Join(", ", labels)}");
+        Assert.Equal("amount", basis["labels"]!.AsArray()[0]!.GetValue<string>());
+        Assert.Contains("duration", first["aspects"]!.AsArray().Select(x => x!.GetValue<string>()));
+        Assert.True(first["scores"]!["duration"]!.GetValue<double>() > 0.3, $"duration score {first["scores"]!["duration"]}");
+    }
+
+    [Fact]
+    public void Given_the_demo_region_when_regressed_then_component_1_grows_with_elevation_as_the_truth_says()
+    {
+        // truth.json "effects.ols": peak depth and duration both rise with elevation.
+        var truthPeak = demo.Truth["effects"]!["ols"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == "peak_depth_mm")!;
+        var truthDuration = demo.Truth["effects"]!["ols"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == "duration_days")!;
+        var model = demo.Regression["models"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == "median_c1")!;
+        var elevation = model["coefficients"]!.AsArray().Single(c => c!["name"]!.GetValue<string>() == "elevation_km")!;
+
+        Assert.True(truthPeak["elevation_km"]!.GetValue<double>() > 0 && truthDuration["elevation_km"]!.GetValue<double>() > 0);
+        Assert.True(elevation["ci_low"]!.GetValue<double>() > 0, $"median_c1 elevation effect interval starts at {elevation["ci_low"]}");
     }
 
     // The tool regresses station MEDIANS of observed, faulty seasons, so the reference is truth.json "effects.ols_median"

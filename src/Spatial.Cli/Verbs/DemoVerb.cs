@@ -41,7 +41,7 @@ internal static class DemoVerb
             [
                 ["scenario", "--out", region, "--seed", parse.GetValue(seed).ToString(inv), "--stations", n.ToString(inv), "--seasons", s.ToString(inv)],
                 ["import", "--records", records, "--stations", stationList, "--out", results],
-                ["fit", Path.Combine(results, ResultLayout.SeasonMatrix), "--out", results],
+                ["fit", Path.Combine(results, ResultLayout.SeasonMatrix), "--out", results, "--refine"],
                 ["covariates", "--stations", stationList, "--dem", dem, "--coast", coast, "--out", Path.Combine(results, ResultLayout.Covariates)],
                 ["regress", "--results", results, "--grid", dem, "--coast", coast, "--block-km", "20", "--local", "bisquare", "--adaptive"],
                 ["export", results, "--coast", coast, "--dem", dem],

@@ -1,8 +1,20 @@
 namespace Spatial.Fitting.Internal;
 
 /// <summary>Per-station median, IQR, Mann–Kendall and Sen's slope of every coefficient and metric over the training seasons.</summary>
+/// <remarks>
+/// A season metric is summarised only when it is known in at least <see cref="MinKnownFraction"/> of the station's
+/// training seasons; otherwise its median, IQR and trend are left unknown. Metrics go unknown for a reason (a record
+/// that stops while snow still lies, a gap over the melt), so the seasons where they are known are not a random
+/// sample: at a high station whose spring records stop in cover, only the shortest seasons have a known melt-out, and
+/// their median would be biased early. Coefficients are always known when a season has observed days and are not
+/// held to this rule.
+/// </remarks>
 internal static class StationSummaries
 {
+    /// <summary>Share of a station's seasons in which a metric must be known for its summary (from memory: the 80 %
+    /// completeness that WMO guidance on climate normals asks of the years in a normal).</summary>
+    public const double MinKnownFraction = 0.8;
+
     public static StationSummary[] Build(SeasonScores scores, int[] train, ParallelOptions po)
     {
         var groups = new List<(int Start, int End)>();
@@ -39,7 +51,10 @@ internal static class StationSummaries
                     }
                 }
 
-                stats[q] = Summarise(names[q], xs.ToArray(), ys.ToArray());
+                var seasons = end - start;
+                stats[q] = q >= scores.K && ys.Count < MinKnownFraction * seasons
+                    ? new SummaryStatistic(names[q], ys.Count, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN)
+                    : Summarise(names[q], xs.ToArray(), ys.ToArray());
             }
 
             result[g] = new StationSummary(scores.Keys[train[start]].Station, end - start, stats);
