@@ -135,6 +135,20 @@ public sealed class DemoRunTests(DemoRunFixture demo) : IClassFixture<DemoRunFix
     }
 
     [Fact]
+    public async Task The_map_page_serves_the_demo_results_including_the_fit_flags_of_seasons_csv()
+    {
+        // Regression: the page once refused every real results folder because seasons.csv's below_min_days holds
+        // true/false, which its synthetic test folder did not have.
+        await using var server = await Spatial.Viewer.ViewerServer.StartAsync(new Spatial.Viewer.ViewerOptions(demo.Results));
+        using var http = new HttpClient { BaseAddress = server.Uri };
+        var stations = File.ReadAllLines(Path.Combine(demo.Results, "station_list.csv")).Length - 1;
+
+        Assert.Equal(stations, server.StationCount);
+        Assert.Equal(System.Net.HttpStatusCode.OK, (await http.GetAsync("api/stations")).StatusCode);
+        Assert.Equal(System.Net.HttpStatusCode.OK, (await http.GetAsync("api/stations/MF002/seasons")).StatusCode);
+    }
+
+    [Fact]
     public void The_report_is_self_contained_and_carries_the_caution()
     {
         var html = File.ReadAllText(Path.Combine(demo.Results, "report.html"));

@@ -109,6 +109,7 @@ public static class SyntheticResults
         seasonHeader.AddRange(Enumerable.Range(1, K).Select(k => $"c{k}"));
         seasonHeader.AddRange(Enumerable.Range(0, K + 1).Select(k => $"residual_{k}"));
         seasonHeader.AddRange(Metrics);
+        seasonHeader.AddRange(["below_min_days", "modelled_bare_days"]); // flags the fit writes after the metrics
         var seasonRows = new List<object?[]>();
         var names = Enumerable.Range(1, K).Select(k => $"c{k}").Concat(Metrics).ToArray();
         var summaryHeader = new List<string> { "station", "seasons" };
@@ -158,6 +159,8 @@ public static class SyntheticResults
                 row.AddRange(c.Select(x => (object?)x));
                 row.AddRange(res.Select(x => (object?)x));
                 row.AddRange(m.Select(x => (object?)x));
+                row.Add(observed < 250 ? "true" : "false");
+                row.Add(0);
                 seasonRows.Add([.. row]);
                 for (var j = 0; j < K; j++)
                 {

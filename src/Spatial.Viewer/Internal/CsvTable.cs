@@ -53,8 +53,8 @@ internal sealed class CsvTable
     }
 
     /// <summary>
-    /// Parses the field as an invariant-culture double; an empty field is NaN (unknown). Throws a located data
-    /// error when the text is not a number.
+    /// Parses the field as an invariant-culture double; an empty field is NaN (unknown); <c>true</c>/<c>false</c> are 1/0.
+    /// Throws a located data error when the text is none of these.
     /// </summary>
     public double Number(int row, int column)
     {
@@ -72,6 +72,17 @@ internal sealed class CsvTable
         if (double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var value))
         {
             return value;
+        }
+
+        // Flags written by the stages (e.g. seasons.csv below_min_days) read as 1 and 0.
+        if (text.Equals("true", StringComparison.OrdinalIgnoreCase))
+        {
+            return 1;
+        }
+
+        if (text.Equals("false", StringComparison.OrdinalIgnoreCase))
+        {
+            return 0;
         }
 
         throw new SpatialDataException(File, Lines[row], $"column '{Header[column]}' holds '{Shorten(text)}', expected a number", "use invariant-culture numbers (a dot for decimals) or leave the field empty for unknown", column + 1);
