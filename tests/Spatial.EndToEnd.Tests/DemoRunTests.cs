@@ -149,6 +149,33 @@ public sealed class DemoRunTests(DemoRunFixture demo) : IClassFixture<DemoRunFix
     }
 
     [Fact]
+    public void GDAL_reads_the_demo_layers_and_predicted_surfaces_as_written()
+    {
+        // Real client: GDAL's ogrinfo and gdalinfo (Debian gdal-bin), as a GIS user would open the files.
+        var ogrinfo = ExternalTool.Locate("ogrinfo", out var why);
+        var gdalinfo = ExternalTool.Locate("gdalinfo", out var why2);
+        if (ogrinfo is null || gdalinfo is null)
+        {
+            Console.WriteLine($"skipped: {why} {why2}");
+            return;
+        }
+
+        var stations = File.ReadAllLines(Path.Combine(demo.Results, "station_list.csv")).Length - 1;
+        var seasons = File.ReadAllLines(Path.Combine(demo.Results, "seasons.csv")).Length - 1;
+        var (code, info, error) = ExternalTool.Run(ogrinfo, "-so", "-al", Path.Combine(demo.Results, "layers", "spatial.gpkg"));
+        Assert.True(code == 0, error);
+        Assert.Contains($"Layer name: stations", info, StringComparison.Ordinal);
+        Assert.Contains($"Feature Count: {stations}", info, StringComparison.Ordinal);
+        Assert.Contains($"Feature Count: {seasons}", info, StringComparison.Ordinal);
+
+        var surface = Directory.GetFiles(Path.Combine(demo.Results, "regression"), "predicted_*.tif").Order(StringComparer.Ordinal).First();
+        var (gcode, ginfo, gerror) = ExternalTool.Run(gdalinfo, surface);
+        Assert.True(gcode == 0, gerror);
+        Assert.Contains("ID[\"EPSG\",32625]", ginfo, StringComparison.Ordinal); // the demo DEM's CRS, UTM zone 25N
+        Assert.Contains("NoData Value=nan", ginfo, StringComparison.Ordinal);    // sea cells masked
+    }
+
+    [Fact]
     public void The_report_is_self_contained_and_carries_the_caution()
     {
         var html = File.ReadAllText(Path.Combine(demo.Results, "report.html"));
