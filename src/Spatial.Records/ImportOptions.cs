@@ -26,6 +26,13 @@ public sealed record RecordColumns(
 /// <param name="StationsPath">Station list (CSV).</param>
 public sealed record ImportOptions(string RecordsPath, string StationsPath)
 {
+    /// <summary>
+    /// Converts station coordinates given in another CRS (the station list's <c>crs</c> column names an EPSG code) to
+    /// WGS 84: (EPSG code, x, y) → (longitude, latitude). Null refuses such rows. The command line supplies the
+    /// terrain stage's transforms.
+    /// </summary>
+    public Func<int, double, double, (double Longitude, double Latitude)>? StationCrsToWgs84 { get; init; }
+
     /// <summary>Season convention (default: seasons start on 1 September).</summary>
     public SeasonCalendar Calendar { get; init; } = SeasonCalendar.Default;
 

@@ -25,7 +25,7 @@ public static class RecordsImport
     {
         ArgumentNullException.ThrowIfNull(options);
         options.Validate();
-        var stations = StationListFile.Read(options.StationsPath);
+        var stations = StationListFile.Read(options.StationsPath, options.StationCrsToWgs84);
         using var csv = CsvRecordReader.Open(options.RecordsPath);
         return new ImportRun(options, stations, csv).Run(progress, cancel);
     }

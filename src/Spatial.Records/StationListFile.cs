@@ -37,14 +37,22 @@ public static class StationListFile
     /// line) for an unreadable file, a missing column, a short row, a bad or out-of-range number, a duplicate id,
     /// or a CRS other than WGS 84.
     /// </summary>
-    public static StationList Read(string path)
+    public static StationList Read(string path) => Read(path, null);
+
+    /// <summary>
+    /// Reads the station list at <paramref name="path"/>; a row whose <c>crs</c> column names an EPSG code other than
+    /// 4326 has its coordinates (x in the longitude column, y in the latitude column) converted to WGS 84 by
+    /// <paramref name="toWgs84"/> (EPSG code, x, y → longitude, latitude; it throws <see cref="ArgumentException"/> for a
+    /// code it does not know). Without a converter such a row is refused, as by <see cref="Read(string)"/>.
+    /// </summary>
+    public static StationList Read(string path, Func<int, double, double, (double Longitude, double Latitude)>? toWgs84)
     {
         ArgumentException.ThrowIfNullOrEmpty(path);
         using var csv = CsvRecordReader.Open(path);
-        return Read(csv);
+        return Read(csv, toWgs84);
     }
 
-    internal static StationList Read(CsvRecordReader csv)
+    internal static StationList Read(CsvRecordReader csv, Func<int, double, double, (double Longitude, double Latitude)>? toWgs84 = null)
     {
         if (!csv.Read())
         {
@@ -89,13 +97,17 @@ public static class StationListFile
 
             seen[id] = csv.Line;
             var name = nameCol >= 0 ? csv.FieldString(nameCol) : string.Empty;
-            if (crsCol >= 0)
+            var epsg = crsCol >= 0 ? CheckCrs(csv, crsCol, toWgs84 is not null) : 4326;
+            double lon, lat;
+            if (epsg == 4326)
             {
-                CheckCrs(csv, crsCol);
+                lon = Coordinate(csv, lonCol, "longitude", 180, decimalComma);
+                lat = Coordinate(csv, latCol, "latitude", 90, decimalComma);
             }
-
-            var lon = Coordinate(csv, lonCol, "longitude", 180, decimalComma);
-            var lat = Coordinate(csv, latCol, "latitude", 90, decimalComma);
+            else
+            {
+                (lon, lat) = Projected(csv, lonCol, latCol, epsg, decimalComma, toWgs84!);
+            }
             double? elevation = null;
             if (elevCol >= 0 && !CsvText.Trim(csv.Field(elevCol)).IsEmpty)
             {
@@ -199,18 +211,55 @@ public static class StationListFile
         return v;
     }
 
-    private static void CheckCrs(CsvRecordReader csv, int col)
+    /// <summary>The row's EPSG code (4326 for an empty field or WGS 84); refuses any other code unless it can be converted.</summary>
+    private static int CheckCrs(CsvRecordReader csv, int col, bool canConvert)
     {
         var text = csv.FieldString(col);
         var t = text.Replace(" ", string.Empty, StringComparison.Ordinal).ToUpperInvariant();
         if (t.Length == 0 || t is "EPSG:4326" or "4326" or "WGS84" or "EPSG4326")
         {
-            return;
+            return 4326;
+        }
+
+        var digits = t.StartsWith("EPSG:", StringComparison.Ordinal) ? t[5..] : t;
+        if (canConvert && int.TryParse(digits, NumberStyles.None, CultureInfo.InvariantCulture, out var code) && code > 0)
+        {
+            return code;
         }
 
         throw csv.Error(
-            string.Create(CultureInfo.InvariantCulture, $"crs '{text}' is not supported: import reads WGS 84 longitude/latitude (EPSG:4326) only"),
-            "convert the coordinates to EPSG:4326 first (e.g. with PROJ's cs2cs) and set the crs column to EPSG:4326 or leave it empty",
+            string.Create(CultureInfo.InvariantCulture, $"crs '{text}' is not supported: expected EPSG:4326 (WGS 84 longitude/latitude){(canConvert ? " or another EPSG code such as EPSG:32633" : string.Empty)}"),
+            "name the CRS as EPSG:CODE, or convert the coordinates to EPSG:4326 first (e.g. with PROJ's cs2cs)",
             col);
+    }
+
+    private static (double Longitude, double Latitude) Projected(CsvRecordReader csv, int xCol, int yCol, int epsg, bool decimalComma, Func<int, double, double, (double Longitude, double Latitude)> toWgs84)
+    {
+        if (!CsvText.TryParseDouble(csv.Field(xCol), decimalComma, out var x) || !double.IsFinite(x))
+        {
+            throw csv.Error($"x '{CsvText.Show(csv.Field(xCol))}' (longitude column, EPSG:{epsg}) is not a number", "give the coordinate in the units of the named CRS", xCol);
+        }
+
+        if (!CsvText.TryParseDouble(csv.Field(yCol), decimalComma, out var y) || !double.IsFinite(y))
+        {
+            throw csv.Error($"y '{CsvText.Show(csv.Field(yCol))}' (latitude column, EPSG:{epsg}) is not a number", "give the coordinate in the units of the named CRS", yCol);
+        }
+
+        (double Longitude, double Latitude) p;
+        try
+        {
+            p = toWgs84(epsg, x, y);
+        }
+        catch (ArgumentException e)
+        {
+            throw csv.Error($"EPSG:{epsg} cannot be converted to WGS 84 ({e.Message})", "use EPSG:4326 or a UTM zone (EPSG:326xx/327xx), or convert the coordinates first");
+        }
+
+        if (!double.IsFinite(p.Longitude) || !double.IsFinite(p.Latitude) || Math.Abs(p.Latitude) > 90 || Math.Abs(p.Longitude) > 180)
+        {
+            throw csv.Error(FormattableString.Invariant($"({x}, {y}) in EPSG:{epsg} is not a place on Earth"), "check the coordinates and the crs column", xCol);
+        }
+
+        return p;
     }
 }

@@ -54,7 +54,7 @@ internal static class ApplyVerb
                 var calendar = Spatial.Core.SeasonCalendar.TryParse(basis.SeasonStart)
                     ?? throw new Spatial.Core.SpatialDataException(basisPath, 0, $"the basis's season start '{basis.SeasonStart}' is not MM-DD", "write the basis again with 'spatial fit'");
                 var imported = CliOutput.WithProgress(env, parseResult.GetValue(CliApp.Json), "import", p => RecordsImport.Run(
-                    new ImportOptions(matrixPath, stations) { Calendar = calendar, Unit = unit, MinDays = parseResult.GetValue(minDaysOpt) }, p, env.Cancel));
+                    new ImportOptions(matrixPath, stations) { StationCrsToWgs84 = Workflow.StationCrs.ToWgs84, Calendar = calendar, Unit = unit, MinDays = parseResult.GetValue(minDaysOpt) }, p, env.Cancel));
                 matrix = imported.Matrix;
                 inputs.Add(stations);
             }

@@ -51,7 +51,7 @@ internal static class CovariatesVerb
                 throw new UsageException("--dem-crs needs --dem.");
             }
 
-            var list = StationListFile.Read(stationsPath);
+            var list = StationListFile.Read(stationsPath, Workflow.StationCrs.ToWgs84);
             CrsDefinition? crs = demCrsText is null ? null : CrsDefinitions.Parse(demCrsText, "--dem-crs");
             var grid = demPath is null ? null : DemFile.Read(demPath, crs);
             CoastGeometry? coastGeometry = coastText.ToLowerInvariant() switch

@@ -59,6 +59,7 @@ internal static class ImportVerb
             var flags = (parse.GetValue(badFlags) ?? string.Empty).Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries);
             var options = new ImportOptions(recordsPath, stationsPath)
             {
+                StationCrsToWgs84 = Workflow.StationCrs.ToWgs84,
                 Calendar = calendar,
                 MinDays = parse.GetValue(minDays),
                 Unit = depthUnit,
