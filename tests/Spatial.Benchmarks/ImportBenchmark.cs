@@ -3,6 +3,7 @@ using System.IO.Compression;
 using System.Text;
 using Spatial.Core;
 using Spatial.Records;
+using Spatial.Records.Csv;
 
 namespace Spatial.Benchmarks;
 
@@ -354,37 +355,8 @@ public sealed class SpanCsvReader : IDisposable
     public static SpanCsvReader Open(string path, string? displayName = null)
     {
         var name = displayName ?? path;
-        FileStream file;
-        try
-        {
-            file = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16, FileOptions.SequentialScan);
-        }
-        catch (FileNotFoundException)
-        {
-            throw new SpatialDataException(name, 0, "file not found", "check the path");
-        }
-        catch (DirectoryNotFoundException)
-        {
-            throw new SpatialDataException(name, 0, "folder not found", "check the path");
-        }
-        catch (UnauthorizedAccessException)
-        {
-            throw new SpatialDataException(name, 0, "permission denied", "check the file's permissions");
-        }
-        catch (IOException e)
-        {
-            throw new SpatialDataException(name, 0, $"cannot open the file ({e.Message})", "check the path");
-        }
-
-        Stream s = file;
-        Span<byte> magic = stackalloc byte[2];
-        var n = file.Read(magic);
-        file.Position = 0;
-        if (n == 2 && magic[0] == 0x1f && magic[1] == 0x8b)
-        {
-            s = new GZipStream(new BufferedStream(file, 1 << 16), CompressionMode.Decompress);
-        }
-
+        var file = CsvRecordReader.OpenFile(path, name);
+        Stream s = CsvRecordReader.IsGzip(file) ? new GZipStream(new BufferedStream(file, 1 << 16), CompressionMode.Decompress) : file;
         return new SpanCsvReader(s, name, file);
     }
 

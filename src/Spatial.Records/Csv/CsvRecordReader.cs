@@ -59,10 +59,23 @@ internal sealed class CsvRecordReader : IDisposable
     public static CsvRecordReader Open(string path, string? displayName = null)
     {
         var name = displayName ?? path;
-        FileStream file;
+        var file = OpenFile(path, name);
+        Stream s = file;
+        var gzip = IsGzip(file);
+        if (gzip)
+        {
+            s = new GZipStream(file, CompressionMode.Decompress);
+        }
+
+        return new CsvRecordReader(new GuardedStream(s, name, gzip ? path : null), name, file);
+    }
+
+    /// <summary>Opens <paramref name="path"/> for a sequential read; a missing or unreadable file is a located error naming <paramref name="name"/>.</summary>
+    internal static FileStream OpenFile(string path, string name)
+    {
         try
         {
-            file = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16, FileOptions.SequentialScan);
+            return new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16, FileOptions.SequentialScan);
         }
         catch (FileNotFoundException)
         {
@@ -80,22 +93,20 @@ internal sealed class CsvRecordReader : IDisposable
         {
             throw new SpatialDataException(name, 0, $"cannot open the file ({e.Message})", "check the path");
         }
+    }
 
-        Stream s = file;
-        var gzip = false;
-        if (file.CanSeek)
+    /// <summary>True when a seekable <paramref name="file"/> starts with the gzip magic bytes (RFC 1952); the position is left at 0.</summary>
+    internal static bool IsGzip(FileStream file)
+    {
+        if (!file.CanSeek)
         {
-            Span<byte> magic = stackalloc byte[2];
-            var n = file.ReadAtLeast(magic, 2, throwOnEndOfStream: false);
-            file.Position = 0;
-            if (n == 2 && magic[0] == 0x1f && magic[1] == 0x8b)
-            {
-                s = new GZipStream(file, CompressionMode.Decompress);
-                gzip = true;
-            }
+            return false;
         }
 
-        return new CsvRecordReader(new GuardedStream(s, name, gzip ? path : null), name, file);
+        Span<byte> magic = stackalloc byte[2];
+        var n = file.ReadAtLeast(magic, 2, throwOnEndOfStream: false);
+        file.Position = 0;
+        return n == 2 && magic[0] == 0x1f && magic[1] == 0x8b;
     }
 
     /// <summary>The bytes of field <paramref name="index"/> of the current record (unescaped, not trimmed).</summary>
