@@ -15,17 +15,7 @@ internal static class StationCrs
     /// <summary>(EPSG code, x, y) → (longitude, latitude); throws <see cref="ArgumentException"/> for a code Spatial does not know.</summary>
     public static (double Longitude, double Latitude) ToWgs84(int epsg, double x, double y)
     {
-        var transform = Transforms.GetOrAdd(epsg, code =>
-        {
-            try
-            {
-                return CoordinateTransform.Create(CrsDefinition.FromEpsg(code), CrsDefinition.Wgs84);
-            }
-            catch (SpatialDataException e)
-            {
-                throw new ArgumentException(e.Diagnostic.Message, nameof(epsg), e);
-            }
-        });
+        var transform = Transforms.GetOrAdd(epsg, code => CoordinateTransform.Create(CrsDefinition.FromEpsg(code), CrsDefinition.Wgs84));
         return transform.Forward(x, y);
     }
 }
