@@ -103,7 +103,7 @@ public static class MarrowfellScenario
                 ListedElevationErrorM = listed - site.ElevationM,
                 GrossElevationError = plan.Gross[i],
             });
-            stationTruth[i] = TruthOf(id, baseValues[i], options.FirstSeason);
+            stationTruth[i] = TruthOf(id, baseValues[i], options.FirstSeason, weather.SeasonPhaseDays);
         }
 
         var regionEffects = effects is null ? null : RegionEffectsOf(effects, stations, stationTruth, baseValues, options.FirstSeason);
@@ -139,9 +139,9 @@ public static class MarrowfellScenario
         return factory.CreateMultiPolygon([Convert(island.Main), .. island.Islets.Select(Convert)]);
     }
 
-    private static StationTruth TruthOf(StationId id, SeasonValues[] values, int firstSeason)
+    private static StationTruth TruthOf(StationId id, SeasonValues[] values, int firstSeason, IReadOnlyList<double> phase)
     {
-        var seasons = values.Select((v, s) => new SeasonTruth(firstSeason + s, v.Onset, v.Meltout, v.Duration, v.LongestCover, v.SnowDays, v.Peak, v.PeakDay)).ToArray();
+        var seasons = values.Select((v, s) => new SeasonTruth(firstSeason + s, v.Onset, v.Meltout, v.Duration, v.LongestCover, v.SnowDays, v.Peak, v.PeakDay, v.Centroid, phase[s])).ToArray();
         var onset = values.Where(v => v.Onset.HasValue).Select(v => (double)v.Onset!.Value).ToArray();
         var melt = values.Where(v => v.Meltout.HasValue).Select(v => (double)v.Meltout!.Value).ToArray();
         double[][] columns =
@@ -152,6 +152,7 @@ public static class MarrowfellScenario
             values.Select(v => (double)v.LongestCover).ToArray(),
             values.Select(v => (double)v.SnowDays).ToArray(),
             values.Select(v => (double)v.Peak).ToArray(),
+            values.Where(v => v.Centroid.HasValue).Select(v => v.Centroid!.Value).ToArray(),
         ];
         var mean = SnowMetrics.FromArray(columns.Select(c => c.Length == 0 ? double.NaN : c.Average()).ToArray());
         var median = SnowMetrics.FromArray(columns.Select(Median).ToArray());
@@ -173,8 +174,8 @@ public static class MarrowfellScenario
     {
         SnowMetrics Average(Func<StationEffects, double[]> pick)
         {
-            var r = new double[6];
-            for (var m = 0; m < 6; m++)
+            var r = new double[SnowMetrics.Names.Count];
+            for (var m = 0; m < r.Length; m++)
             {
                 var xs = effects.Select(pick).Select(a => a[m]).Where(v => !double.IsNaN(v)).ToArray();
                 r[m] = xs.Length == 0 ? double.NaN : xs.Average();
@@ -186,8 +187,8 @@ public static class MarrowfellScenario
         var timing = effects.Count(e => !double.IsNaN(e.PerKmElevation[0]));
 
         // Realised trend: per station, the least-squares slope of each season metric on the season year, × 10.
-        var realised = new double[6];
-        for (var m = 0; m < 6; m++)
+        var realised = new double[SnowMetrics.Names.Count];
+        for (var m = 0; m < realised.Length; m++)
         {
             var slopes = new List<double>();
             foreach (var sv in values)
@@ -211,10 +212,10 @@ public static class MarrowfellScenario
         List<OlsEffect> OlsOf(Func<StationTruth, SnowMetrics> statistic)
         {
             var ols = new List<OlsEffect>();
-            for (var m = 0; m < 6; m++)
+            for (var m = 0; m < SnowMetrics.Names.Count; m++)
             {
                 var rows = Enumerable.Range(0, stations.Length)
-                    .Where(i => !double.IsNaN(statistic(truth[i]).ToArray()[m]) && (m >= 2 || truth[i].CoverSeasonFraction >= 0.5))
+                    .Where(i => !double.IsNaN(statistic(truth[i]).ToArray()[m]) && ((m >= 2 && m != CentroidMetric) || truth[i].CoverSeasonFraction >= 0.5))
                     .ToArray();
                 if (rows.Length < 8)
                 {
@@ -259,8 +260,12 @@ public static class MarrowfellScenario
         2 => v.Duration,
         3 => v.LongestCover,
         4 => v.SnowDays,
-        _ => v.Peak,
+        5 => v.Peak,
+        _ => v.Centroid ?? double.NaN,
     };
+
+    /// <summary>Index of centroid_day in <see cref="SnowMetrics.Names"/>: like onset and melt-out, defined only in seasons with snow.</summary>
+    internal const int CentroidMetric = 6;
 }
 
 /// <summary>One station's central finite differences of its season-mean metrics (NaN where undefined), per unit named.</summary>
@@ -272,8 +277,8 @@ internal sealed record StationEffects(double[] PerKmElevation, double[] Per10KmC
         {
             var a = SeasonMetricsCalc.Compute(SnowSimulator.Simulate(weather, lo, seed, offsetLo), weather);
             var b = SeasonMetricsCalc.Compute(SnowSimulator.Simulate(weather, hi, seed, offsetHi), weather);
-            var result = new double[6];
-            for (var m = 0; m < 6; m++)
+            var result = new double[SnowMetrics.Names.Count];
+            for (var m = 0; m < result.Length; m++)
             {
                 var sum = 0.0;
                 var count = 0;
@@ -291,7 +296,7 @@ internal sealed record StationEffects(double[] PerKmElevation, double[] Per10KmC
                 }
 
                 // Timing metrics need cover in both runs in at least half the seasons.
-                result[m] = count == 0 || (m < 2 && count * 2 < a.Length) ? double.NaN : sum / count / stepUnits;
+                result[m] = count == 0 || ((m < 2 || m == MarrowfellScenario.CentroidMetric) && count * 2 < a.Length) ? double.NaN : sum / count / stepUnits;
             }
 
             return result;

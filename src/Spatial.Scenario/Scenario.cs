@@ -62,18 +62,18 @@ public sealed record DailyRecords(DateOnly FirstDate, IReadOnlyList<short[]> Dep
 
 /// <summary>
 /// A set of the season metrics: onset and melt-out season day (0 = 1 September), duration (melt-out − onset + 1, days),
-/// longest continuous cover (days), snow days, peak depth (mm). NaN where unknown.
+/// longest continuous cover (days), snow days, peak depth (mm), depth-weighted centroid day. NaN where unknown.
 /// </summary>
-public sealed record SnowMetrics(double OnsetDay, double MeltoutDay, double DurationDays, double LongestCoverDays, double SnowDays, double PeakDepthMm)
+public sealed record SnowMetrics(double OnsetDay, double MeltoutDay, double DurationDays, double LongestCoverDays, double SnowDays, double PeakDepthMm, double CentroidDay)
 {
     /// <summary>The metric names as written in files, in property order.</summary>
-    public static IReadOnlyList<string> Names { get; } = ["onset_day", "meltout_day", "duration_days", "longest_cover_days", "snow_days", "peak_depth_mm"];
+    public static IReadOnlyList<string> Names { get; } = ["onset_day", "meltout_day", "duration_days", "longest_cover_days", "snow_days", "peak_depth_mm", "centroid_day"];
 
     /// <summary>The values in <see cref="Names"/> order.</summary>
-    public double[] ToArray() => [OnsetDay, MeltoutDay, DurationDays, LongestCoverDays, SnowDays, PeakDepthMm];
+    public double[] ToArray() => [OnsetDay, MeltoutDay, DurationDays, LongestCoverDays, SnowDays, PeakDepthMm, CentroidDay];
 
     /// <summary>From values in <see cref="Names"/> order.</summary>
-    public static SnowMetrics FromArray(ReadOnlySpan<double> v) => new(v[0], v[1], v[2], v[3], v[4], v[5]);
+    public static SnowMetrics FromArray(ReadOnlySpan<double> v) => new(v[0], v[1], v[2], v[3], v[4], v[5], v[6]);
 }
 
 /// <summary>One season of a station's noise-free snowpack (before any observation fault).</summary>
@@ -85,7 +85,9 @@ public sealed record SnowMetrics(double OnsetDay, double MeltoutDay, double Dura
 /// <param name="SnowDays">Days with depth ≥ 25 mm.</param>
 /// <param name="PeakDepthMm">Greatest depth, mm.</param>
 /// <param name="PeakDay">First day of the greatest depth; null when it is 0.</param>
-public sealed record SeasonTruth(int Season, int? OnsetDay, int? MeltoutDay, int DurationDays, int LongestCoverDays, int SnowDays, int PeakDepthMm, int? PeakDay);
+/// <param name="CentroidDay">Depth-weighted mean day Σ d·x_d / Σ x_d; null when the season has no depth.</param>
+/// <param name="PhaseDays">The region's season phase anomaly of this season, days (+ = the seasonal cycle runs late).</param>
+public sealed record SeasonTruth(int Season, int? OnsetDay, int? MeltoutDay, int DurationDays, int LongestCoverDays, int SnowDays, int PeakDepthMm, int? PeakDay, double? CentroidDay, double PhaseDays);
 
 /// <summary>A station's noise-free truth.</summary>
 /// <param name="Station">Station id.</param>

@@ -168,13 +168,14 @@ public static class ScenarioFiles
 
     private static void WriteTruthSeasons(TextWriter w, Scenario scenario)
     {
-        w.Write("station,season,onset_day,meltout_day,duration_days,longest_cover_days,snow_days,peak_depth_mm,peak_day\n");
+        w.Write("station,season,onset_day,meltout_day,duration_days,longest_cover_days,snow_days,peak_depth_mm,peak_day,centroid_day,phase_days\n");
         static string O(int? v) => v?.ToString(CultureInfo.InvariantCulture) ?? string.Empty;
+        static string C(double? v) => v?.ToString("F3", CultureInfo.InvariantCulture) ?? string.Empty;
         foreach (var st in scenario.Truth.Stations)
         {
             foreach (var s in st.Seasons)
             {
-                w.Write(string.Create(CultureInfo.InvariantCulture, $"{st.Station.Value},{s.Season},{O(s.OnsetDay)},{O(s.MeltoutDay)},{s.DurationDays},{s.LongestCoverDays},{s.SnowDays},{s.PeakDepthMm},{O(s.PeakDay)}\n"));
+                w.Write(string.Create(CultureInfo.InvariantCulture, $"{st.Station.Value},{s.Season},{O(s.OnsetDay)},{O(s.MeltoutDay)},{s.DurationDays},{s.LongestCoverDays},{s.SnowDays},{s.PeakDepthMm},{O(s.PeakDay)},{C(s.CentroidDay)},{s.PhaseDays.ToString("F3", CultureInfo.InvariantCulture)}\n"));
             }
         }
     }

@@ -412,7 +412,7 @@ public sealed class ScenarioOutputTests(ScenarioFixture fx)
     {
         // The documented definition, applied to the file's own numbers: least squares of each station mean (ols) or
         // median (ols_median) on
-        // [1, elevation_true_m/1000, coast_km/10, latitude] (onset/meltout: stations with cover in at least half the seasons).
+        // [1, elevation_true_m/1000, coast_km/10, latitude] (onset/meltout/centroid: stations with cover in at least half the seasons).
         using var doc = JsonDocument.Parse(File.ReadAllText(fx.File(ScenarioFiles.Truth)));
         var stations = doc.RootElement.GetProperty("station_truth").EnumerateArray().ToArray();
         foreach (var (block, statistic) in new[] { ("ols", "mean"), ("ols_median", "median") })
@@ -420,7 +420,7 @@ public sealed class ScenarioOutputTests(ScenarioFixture fx)
             foreach (var model in doc.RootElement.GetProperty("effects").GetProperty(block).EnumerateArray())
             {
                 var response = model.GetProperty("response").GetString()!;
-                var timing = response is "onset_day" or "meltout_day";
+                var timing = response is "onset_day" or "meltout_day" or "centroid_day";
                 var rows = stations.Where(s => s.GetProperty(statistic).GetProperty(response).ValueKind == JsonValueKind.Number
                     && (!timing || s.GetProperty("cover_season_fraction").GetDouble() >= 0.5)).ToArray();
                 Assert.Equal(model.GetProperty("stations").GetInt32(), rows.Length);

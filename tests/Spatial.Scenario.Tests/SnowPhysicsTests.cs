@@ -144,6 +144,28 @@ public sealed class SnowPhysicsTests
     }
 
     [Fact]
+    public void A_season_whose_cycle_runs_late_has_its_onset_centroid_and_melt_out_late_together_but_not_a_longer_season()
+    {
+        // The generator's own input: SeasonPhaseSdDays, normal truncated at ±2.5 sd. A phase of φ days shifts the seasonal
+        // cycle by φ, so at a 1,000 m station onset, centroid and melt-out each move with φ (positive correlations), while
+        // the length of the season (melt-out − onset) does not follow φ.
+        var phase = LongWeather.SeasonPhaseDays.ToArray();
+        Assert.All(phase, p => Assert.InRange(p, -2.5 * Climate.SeasonPhaseSdDays, 2.5 * Climate.SeasonPhaseSdDays));
+        Assert.InRange(Sd(phase), 0.8 * Climate.SeasonPhaseSdDays, 1.1 * Climate.SeasonPhaseSdDays);
+
+        var values = SeasonMetricsCalc.Compute(SnowSimulator.Simulate(LongWeather, new PlaceInputs(1000, 15, 47, 0), 21), LongWeather);
+        var onset = values.Select(v => (double)v.Onset!.Value).ToArray();
+        var melt = values.Select(v => (double)v.Meltout!.Value).ToArray();
+        var centroid = values.Select(v => v.Centroid!.Value).ToArray();
+        var length = values.Select(v => (double)(v.Meltout!.Value - v.Onset!.Value)).ToArray();
+
+        Assert.True(Correlation(phase, onset) > 0.3, $"r(phase, onset) {Correlation(phase, onset):F2}");
+        Assert.True(Correlation(phase, melt) > 0.3, $"r(phase, melt-out) {Correlation(phase, melt):F2}");
+        Assert.True(Correlation(phase, centroid) > 0.5, $"r(phase, centroid) {Correlation(phase, centroid):F2}");
+        Assert.InRange(Correlation(phase, length), -0.25, 0.25);
+    }
+
+    [Fact]
     public void Fresh_snow_is_light_and_the_pack_settles_towards_the_settled_density()
     {
         // Depth / SWE = 1000 / density: a first snowfall is near 100 kg/m³ (10 mm of depth per mm SWE); an old pack near

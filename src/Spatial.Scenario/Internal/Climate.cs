@@ -86,6 +86,19 @@ internal static class Climate
     /// <summary>Log-scale effect of one sd of the precipitation regime index on wet-day amounts (mean-preserving; invented).</summary>
     public const double RegimeAmountLog = 0.2;
 
+    /// <summary>
+    /// Standard deviation of the season phase anomaly, days (invented, of the order of the year-to-year spread of the
+    /// timing of snowmelt, one to three weeks, from memory): in each season the whole seasonal cycle of temperature and
+    /// of the precipitation maximum runs early or late by a number of days drawn once for the region (normal, truncated at ±2.5 sd). It makes some
+    /// winters come and go early and others late, a mode of variation that moves onset, melt-out and the depth-weighted
+    /// centre of the season together without lengthening the season; without it the weather regimes move onset and
+    /// melt-out only independently of each other.
+    /// </summary>
+    public const double SeasonPhaseSdDays = 12;
+
+    /// <summary>Days from 1 September over which the phase anomaly passes from the previous season's value to this season's (invented; no jump in the weather at the season boundary).</summary>
+    public const double SeasonPhaseRampDays = 30;
+
     /// <summary>Standard deviation of the local (station) day-to-day noise, °C (invented).</summary>
     public const double LocalNoiseSdC = 0.7;
 

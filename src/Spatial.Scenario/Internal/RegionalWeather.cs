@@ -7,12 +7,15 @@ namespace Spatial.Scenario.Internal;
 /// 31 August after the last (29 February included: the weather goes on; the season calendar drops that day): the
 /// regional year-to-year, ocean-driven, weather-regime and day-to-day temperature anomalies (each AR(1)), the warming trend, and the
 /// regional wet/dry Markov chain with gamma-distributed unit amounts, both modulated by a precipitation regime index
-/// that is partly correlated with the temperature regime. Stations add their own climate and local noise.
+/// that is partly correlated with the temperature regime, and each season's phase anomaly, which shifts the seasonal cycle
+/// of temperature and precipitation by a number of days (<see cref="Climate.SeasonPhaseSdDays"/>): <see cref="CosDoy"/>
+/// and <see cref="SinDoy"/> are of the shifted day. Stations add their own climate and local noise.
 /// </summary>
 internal sealed class RegionalWeather
 {
-    private RegionalWeather(int firstSeason, int seasons, DateOnly[] dates, int[] seasonIndex, int[] seasonDay, double[] cosDoy, double[] sinDoy, double[] anomalyC, double[] regimeC, bool[] wet, double[] unitAmount)
+    private RegionalWeather(int firstSeason, int seasons, DateOnly[] dates, int[] seasonIndex, int[] seasonDay, double[] cosDoy, double[] sinDoy, double[] anomalyC, double[] regimeC, bool[] wet, double[] unitAmount, double[] seasonPhaseDays)
     {
+        SeasonPhaseDays = seasonPhaseDays;
         FirstSeason = firstSeason;
         Seasons = seasons;
         Dates = dates;
@@ -41,10 +44,10 @@ internal sealed class RegionalWeather
     /// <summary>Season day 0…364 of each day, −1 for 29 February (dropped by <see cref="SeasonCalendar"/>).</summary>
     public int[] SeasonDay { get; }
 
-    /// <summary>cos(2π·doy/365) of each day (doy 0-based in a 365-day year; 29 February takes 28 February's).</summary>
+    /// <summary>cos(2π·(doy − phase)/365) of each day (doy 0-based in a 365-day year, 29 February takes 28 February's; phase = the season's phase anomaly, ramped in over the first days of the season).</summary>
     public double[] CosDoy { get; }
 
-    /// <summary>sin(2π·doy/365) of each day.</summary>
+    /// <summary>sin(2π·(doy − phase)/365) of each day.</summary>
     public double[] SinDoy { get; }
 
     /// <summary>Regional temperature anomaly of each day (year-to-year + ocean + weather regime + day-to-day + warming trend), °C.</summary>
@@ -55,6 +58,12 @@ internal sealed class RegionalWeather
     /// days) plus the ocean-driven anomaly (AR(1), e-folding <see cref="Climate.OceanEFoldingDays"/> days).
     /// </summary>
     public double[] RegimeC { get; }
+
+    /// <summary>
+    /// Per season, the days by which the whole seasonal cycle of temperature and precipitation runs late (+) or early (−)
+    /// (see <see cref="Climate.SeasonPhaseSdDays"/>).
+    /// </summary>
+    public IReadOnlyList<double> SeasonPhaseDays { get; }
 
     /// <summary>True on regionally wet days.</summary>
     public bool[] Wet { get; }
@@ -89,6 +98,22 @@ internal sealed class RegionalWeather
         {
             yearAnomaly[s] = ya;
             ya = (Climate.YearAnomalyAr * ya) + (Math.Sqrt(1 - (Climate.YearAnomalyAr * Climate.YearAnomalyAr)) * Climate.YearAnomalySdC * rng.Normal());
+        }
+
+        // Season phase anomaly from a stream of its own (so the other draws are unchanged): days by which the whole
+        // seasonal cycle of temperature and precipitation runs late (+) or early (−) in each season.
+        var phaseRng = new Rng(Rng.Derive(seed, 0x5048415345UL)); // "PHASE"
+        var phase = new double[seasons];
+        for (var s = 0; s < seasons; s++)
+        {
+            // Normal, truncated at ±2.5 sd by redrawing: no season runs more than a month early or late.
+            var z = phaseRng.Normal();
+            while (Math.Abs(z) > 2.5)
+            {
+                z = phaseRng.Normal();
+            }
+
+            phase[s] = Climate.SeasonPhaseSdDays * z;
         }
 
         var daily = rng.Normal() * Climate.DailyAnomalySdC;
@@ -126,13 +151,16 @@ internal sealed class RegionalWeather
             var s = season - firstSeason;
             seasonIndex[t] = s;
             seasonDay[t] = day;
-            var doy = leapDay ? 58 : date.DayOfYear - 1 - (DateTime.IsLeapYear(date.Year) && date.Month > 2 ? 1 : 0);
+            var doy0 = leapDay ? 58 : date.DayOfYear - 1 - (DateTime.IsLeapYear(date.Year) && date.Month > 2 ? 1 : 0);
+            var dayInSeason = leapDay ? 180 : day;
+            var ramp = Math.Min(1.0, (dayInSeason + 0.5) / Climate.SeasonPhaseRampDays);
+            var shift = s > 0 ? (ramp * phase[s]) + ((1 - ramp) * phase[s - 1]) : phase[s];
+            var doy = doy0 - shift;
             var angle = 2 * Math.PI * doy / 365.0;
             cos[t] = Math.Cos(angle);
             sin[t] = Math.Sin(angle);
 
-            var seasonDayForTrend = leapDay ? 180 : day;
-            var years = s + ((seasonDayForTrend + 0.5) / SeasonCalendar.DaysPerSeason) - midYears;
+            var years = s + ((dayInSeason + 0.5) / SeasonCalendar.DaysPerSeason) - midYears;
             regime[t] = (Climate.RegimeSdC * tempRegime) + (Climate.OceanSdC * ocean);
             anomaly[t] = yearAnomaly[s] + regime[t] + daily + (Climate.WarmingCPerDecade * years / 10);
             daily = (Climate.DailyAnomalyAr * daily) + (dailyInnovation * rng.Normal());
@@ -159,6 +187,6 @@ internal sealed class RegionalWeather
             amount[t] = wasWet ? g * (1 + (Climate.AmountSeasonality * winter)) * amountFactor : 0;
         }
 
-        return new RegionalWeather(firstSeason, seasons, dates, seasonIndex, seasonDay, cos, sin, anomaly, regime, wet, amount);
+        return new RegionalWeather(firstSeason, seasons, dates, seasonIndex, seasonDay, cos, sin, anomaly, regime, wet, amount, phase);
     }
 }

@@ -27,6 +27,8 @@ internal static class TruthJson
         ("regime_sd_c", Climate.RegimeSdC, "degC", "from memory"),
         ("ocean_e_folding_days", Climate.OceanEFoldingDays, "days", "from memory"),
         ("ocean_sd_c", Climate.OceanSdC, "degC", "from memory"),
+        ("season_phase_sd_days", Climate.SeasonPhaseSdDays, "days", "invented"),
+        ("season_phase_ramp_days", Climate.SeasonPhaseRampDays, "days", "invented"),
         ("regime_wet_correlation", Climate.RegimeWetCorrelation, "1", "from memory"),
         ("regime_wet_chance_log", Climate.RegimeWetChanceLog, "1", "invented"),
         ("regime_amount_log", Climate.RegimeAmountLog, "1", "invented"),
@@ -84,12 +86,14 @@ internal static class TruthJson
         ("longest_cover_days", "Longest run of consecutive covered days."),
         ("snow_days", "Number of covered days."),
         ("peak_depth_mm", "Greatest true depth of the season, mm."),
+        ("centroid_day", "Depth-weighted mean day of the season, sum(d * depth_d) / sum(depth_d) over its 365 days; unknown in a season without snow. Where the season's snow lies in time: it comes later at higher stations, whose snow lasts into spring, even though their onset is earlier."),
+        ("phase_days", "The region's season phase anomaly (truth_seasons.csv and season_phase): the days by which the whole seasonal cycle of temperature and precipitation runs late (+) or early (-) in that season, the same at every station; it moves onset, melt-out and centroid together (an earlier or later season, not a longer one)."),
         ("mean", "Mean over seasons of a station's season values; onset_day and meltout_day over the seasons with cover only (null when none has)."),
         ("median", "Median over the same seasons as mean."),
         ("elevation_true_m", "DEM interpolated bilinearly between cell centres at the station (the containing cell's value next to the sea); the elevation the generator uses."),
         ("coast_km", "Planar distance in UTM zone 25N from the station to the nearest land-polygon boundary (coastline and islets), km; within 0.05 % of the geodesic distance."),
         ("finite_difference", "For each station, a central difference of its season-mean metric when one generator input moves and everything else, including every random number, stays: elevation +-100 m (per km), coast distance +-1 km (per 10 km), latitude +-0.05 deg (per degree), a uniform temperature offset +-0.15 degC (per 0.3 degC = per decade of the trend); a step that would go below 0 is moved up to start at 0. onset/meltout differences average the seasons with cover in both runs and need such cover in at least half the seasons; the region value is the mean over the stations where it is defined (timing_stations for onset/meltout)."),
-        ("ols", "Ordinary least squares over the stations of the station-mean metric on [1, elevation_true_m/1000, coast_km/10, latitude]: what a regression with exactly these predictors estimates from perfect data. Stations with cover in fewer than half the seasons are left out of the onset_day and meltout_day fits."),
+        ("ols", "Ordinary least squares over the stations of the station-mean metric on [1, elevation_true_m/1000, coast_km/10, latitude]: what a regression with exactly these predictors estimates from perfect data. Stations with cover in fewer than half the seasons are left out of the onset_day, meltout_day and centroid_day fits."),
         ("ols_median", "As ols, with the station-median metric as the response (same stations, same predictors): what a regression of station medians estimates from perfect data. Means and medians part where a metric's season values are skewed (onset_day: a few very early first snowfalls)."),
         ("realised_trend_per_decade", "Mean over stations of the least-squares slope of each season value on the season year, times 10 (onset/meltout over seasons with cover, stations with cover in at least half the seasons)."),
         ("per_decade_warming", "The expected change per decade of the 0.3 degC/decade warming: the finite difference for a uniform +-0.15 degC offset."),
@@ -156,6 +160,17 @@ internal static class TruthJson
             Ols(w, "ols_median", e.OlsMedian);
             w.WriteEndObject();
         }
+
+        w.WriteStartArray("season_phase");
+        foreach (var season in scenario.Truth.Stations.Count > 0 ? scenario.Truth.Stations[0].Seasons : [])
+        {
+            w.WriteStartObject();
+            w.WriteNumber("season", season.Season);
+            Num(w, "phase_days", season.PhaseDays, 3);
+            w.WriteEndObject();
+        }
+
+        w.WriteEndArray();
 
         w.WriteStartArray("station_truth");
         for (var i = 0; i < scenario.Stations.Count; i++)
