@@ -120,14 +120,14 @@ public sealed class SeasonScores
 /// <param name="Component">1-based component number.</param>
 /// <param name="Label">amount, timing, duration or other.</param>
 /// <param name="Correlations">Pearson r of the (oriented) coefficient with each metric over training seasons where the metric is known.</param>
-/// <param name="Basis">Metric(s) the label rests on (<c>peak_depth_mm</c>, <c>onset_day+meltout_day</c>, <c>meltout_day-onset_day</c>), or empty for other.</param>
+/// <param name="Basis">Metric(s) the label rests on (<c>peak_depth_mm</c>, <c>centroid_day</c>, <c>longest_cover_days</c>), or empty for other.</param>
 /// <param name="Orientation">The sign rule applied.</param>
 public sealed record ComponentLabel(int Component, string Label, IReadOnlyDictionary<string, double> Correlations, string Basis, string Orientation)
 {
     /// <summary>Partial correlation p of the (oriented) coefficient with each metric given the earlier components (component 1: plain r), over training seasons where the metric and all coefficients are known.</summary>
     public IReadOnlyDictionary<string, double> PartialCorrelations { get; init; } = new Dictionary<string, double>(StringComparer.Ordinal);
 
-    /// <summary>Label scores from <see cref="PartialCorrelations"/>: amount = p(peak), timing = −(p(onset) + p(melt-out))/2 (positive = earlier), duration = (p(melt-out) − p(onset))/2 (positive = longer).</summary>
+    /// <summary>Label scores from <see cref="PartialCorrelations"/>: amount = p(peak), timing = −p(centroid day) (positive = earlier), duration = p(longest cover) (positive = longer).</summary>
     public IReadOnlyDictionary<string, double> Scores { get; init; } = new Dictionary<string, double>(StringComparer.Ordinal);
 
     /// <summary>Every aspect (amount, timing, duration) whose |score| reaches the labelling minimum, largest first: a component the data do not separate from a second aspect carries both here, while <see cref="Label"/> names one, each label going to one component only.</summary>

@@ -28,7 +28,7 @@ namespace Spatial.Fitting;
 /// (counted in <see cref="SeasonMetrics.ModelledBareDays"/>, never given a depth); every other gap — in particular any
 /// gap touching cover — is of unknown state, and a metric it could change is unknown (<see cref="SeasonMetrics"/>).</para>
 /// <para>Labels: sequential partial correlations of component k with the metrics given components 1…k−1; scores
-/// amount = p(peak), timing = −(p(onset) + p(melt-out))/2, duration = (p(melt-out) − p(onset))/2; in component order each
+/// amount = p(peak), timing = −p(centroid day), duration = p(longest cover); in component order each
 /// component takes its largest free label when |score| ≥ <see cref="FitOptions.LabelMinCorrelation"/>
 /// (<see cref="ComponentLabel"/>).</para>
 /// <para>Results do not depend on the thread count: rows are cut into chunks by row count only, each chunk summed

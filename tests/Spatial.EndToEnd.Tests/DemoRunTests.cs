@@ -1,3 +1,4 @@
+using System.Globalization;
 using System.Text.Json.Nodes;
 using Spatial.Cli;
 using Spatial.Testing;
@@ -69,18 +70,89 @@ public sealed class DemoRunTests(DemoRunFixture demo) : IClassFixture<DemoRunFix
     }
 
     [Fact]
-    public void Given_the_demo_region_when_fitted_then_component_1_is_amount_and_carries_a_longer_season()
+    public void Given_the_demo_region_when_fitted_then_amount_timing_and_duration_labels_all_come_out()
     {
-        // The generator makes seasons deeper and longer together with elevation (truth.json "effects": duration and peak
-        // both rise per km). On Marrowfell the first component carries amount and duration as one mode: its duration
-        // score (partial correlation of the two edges moving apart) must be clearly positive, i.e. more snow = longer.
-        var basis = JsonNode.Parse(File.ReadAllText(Path.Combine(demo.Results, "basis.json")))!;
+        // The generator's seasons vary in amount (winter warmth and snowfall), in timing (truth.json "season_phase": the
+        // whole seasonal cycle runs early or late) and in length; the fit must find a component for each.
+        var labels = Labels();
+
+        Assert.Equal("amount", labels[0]);
+        Assert.Contains("timing", labels);
+        Assert.Contains("duration", labels);
+    }
+
+    [Fact]
+    public void Given_the_demo_region_when_fitted_then_component_1_carries_a_longer_season_with_more_snow()
+    {
+        // truth.json "effects": duration and peak both rise per km of elevation, so the amount mode is also a length mode:
+        // its duration score (partial correlation with the longest continuous cover) must be clearly positive.
         var interpretation = JsonNode.Parse(File.ReadAllText(Path.Combine(demo.Results, "interpretation.json")))!;
         var first = interpretation["components"]!.AsArray()[0]!;
 
-        Assert.Equal("amount", basis["labels"]!.AsArray()[0]!.GetValue<string>());
         Assert.Contains("duration", first["aspects"]!.AsArray().Select(x => x!.GetValue<string>()));
         Assert.True(first["scores"]!["duration"]!.GetValue<double>() > 0.3, $"duration score {first["scores"]!["duration"]}");
+    }
+
+    [Fact]
+    public void Given_the_demo_region_when_fitted_then_a_positive_timing_coefficient_means_the_generator_ran_the_season_early()
+    {
+        // Reference: truth_seasons.csv phase_days, the generator's own shift of each season's cycle (+ = late). DESIGN.md:
+        // timing positive = earlier season, so the timing coefficient must correlate positively with −phase_days. Over
+        // ~6 000 seasons a correlation of 0.2 is many standard errors (≈ 0.013) from zero.
+        var t = Array.IndexOf(Labels(), "timing") + 1;
+        var phase = ReadCsv(Path.Combine(demo.Region, "truth_seasons.csv")).ToDictionary(r => (r["station"], r["season"]), r => double.Parse(r["phase_days"], CultureInfo.InvariantCulture));
+        var pairs = ReadCsv(Path.Combine(demo.Results, "seasons.csv"))
+            .Where(r => r[$"c{t}"].Length > 0)
+            .Select(r => (Coefficient: double.Parse(r[$"c{t}"], CultureInfo.InvariantCulture), Early: -phase[(r["station"], r["season"])]))
+            .ToArray();
+
+        var r = Pearson(pairs.Select(p => p.Coefficient).ToArray(), pairs.Select(p => p.Early).ToArray());
+        Assert.True(pairs.Length > 5000, $"{pairs.Length} seasons");
+        Assert.True(r > 0.2, $"r(c{t}, -phase_days) = {r:F3}");
+    }
+
+    [Theory]
+    [InlineData("timing", "centroid_day", -1)]
+    [InlineData("duration", "longest_cover_days", 1)]
+    public void Given_the_demo_region_when_regressed_then_the_labelled_component_moves_with_elevation_as_the_truth_says(string label, string truthMetric, int sign)
+    {
+        // Reference: truth.json "effects.ols_median", the generator's noise-free station medians regressed on elevation.
+        // Higher stations have longer seasons (longest cover rises per km) whose snow lies later (the depth-weighted centroid
+        // day rises per km: their snow lasts into spring, although it also starts earlier). Timing positive = earlier, so
+        // its elevation effect must have the opposite sign of the centroid's; duration positive = longer, the same sign.
+        var k = Array.IndexOf(Labels(), label) + 1;
+        var truth = demo.Truth["effects"]!["ols_median"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == truthMetric)!;
+        var model = demo.Regression["models"]!.AsArray().Single(m => m!["response"]!.GetValue<string>() == $"median_c{k}")!;
+        var elevation = model["coefficients"]!.AsArray().Single(c => c!["name"]!.GetValue<string>() == "elevation_km")!;
+        var expected = sign * Math.Sign(truth["elevation_km"]!.GetValue<double>());
+
+        Assert.Equal(expected, Math.Sign(elevation["ci_low"]!.GetValue<double>()));
+        Assert.Equal(expected, Math.Sign(elevation["ci_high"]!.GetValue<double>()));
+    }
+
+    private string[] Labels() =>
+        JsonNode.Parse(File.ReadAllText(Path.Combine(demo.Results, "basis.json")))!["labels"]!.AsArray().Select(x => x!.GetValue<string>()).ToArray();
+
+    private static List<Dictionary<string, string>> ReadCsv(string path)
+    {
+        var lines = File.ReadAllLines(path);
+        var header = lines[0].Split(',');
+        return lines.Skip(1).Select(l => l.Split(',')).Select(f => header.Select((h, i) => (h, f[i])).ToDictionary(x => x.h, x => x.Item2, StringComparer.Ordinal)).ToList();
+    }
+
+    private static double Pearson(double[] a, double[] b)
+    {
+        var ma = a.Average();
+        var mb = b.Average();
+        double sab = 0, saa = 0, sbb = 0;
+        for (var i = 0; i < a.Length; i++)
+        {
+            sab += (a[i] - ma) * (b[i] - mb);
+            saa += (a[i] - ma) * (a[i] - ma);
+            sbb += (b[i] - mb) * (b[i] - mb);
+        }
+
+        return sab / Math.Sqrt(saa * sbb);
     }
 
     [Fact]

@@ -60,8 +60,8 @@ public sealed class InterpretationTests
         Assert.True(Correlation(centre, r => fit.Seasons.Coefficient(r, t)) < -0.9);
         var label = fit.Interpretation.Labels[t];
         Assert.True(label.Correlations["centroid_day"] < 0);
-        Assert.Equal("onset_day+meltout_day", label.Basis);
-        Assert.True(label.Scores["timing"] > 0); // −(p_onset + p_meltout)/2 > 0 after orientation: earlier
+        Assert.Equal("centroid_day", label.Basis);
+        Assert.True(label.Scores["timing"] > 0); // −p_centroid > 0 after orientation: earlier
         Assert.Contains("timing", label.Aspects);
     }
 
@@ -107,6 +107,9 @@ public sealed class InterpretationTests
     [InlineData(11)]
     [InlineData(12)]
     [InlineData(13)]
+    [InlineData(14)]
+    [InlineData(15)]
+    [InlineData(16)]
     public void Independent_amount_timing_and_duration_get_their_own_labels_with_the_design_signs(int seed)
     {
         var (matrix, amount, shift, stretch) = Templates(600, seed);
@@ -115,17 +118,52 @@ public sealed class InterpretationTests
         var a = Array.IndexOf(labels, "amount");
         var t = Array.IndexOf(labels, "timing");
         var d = Array.IndexOf(labels, "duration");
-        Assert.True(a >= 0 && t >= 0 && d >= 0, string.Join(",", labels));
+        var scores = string.Join("; ", fit.Interpretation.Labels.Select(l => $"c{l.Component} {l.Label}: " + string.Join(" ", l.Scores.Select(kv => $"{kv.Key} {kv.Value:F2}"))));
+        Assert.True(a >= 0 && t >= 0 && d >= 0, scores);
         // DESIGN.md signs: amount positive = more snow, timing positive = earlier (smaller shift), duration positive = longer.
         var ra = Correlation(amount, r => fit.Seasons.Coefficient(r, a));
         var rt = Correlation(shift, r => fit.Seasons.Coefficient(r, t));
         var rd = Correlation(stretch, r => fit.Seasons.Coefficient(r, d));
-        Assert.True(ra > 0.5, $"r(amount, c{a + 1}) = {ra}");
-        Assert.True(rt < -0.5, $"r(shift, c{t + 1}) = {rt}");
-        Assert.True(rd > 0.5, $"r(stretch, c{d + 1}) = {rd}");
+        Assert.True(ra > 0.5, $"r(amount, c{a + 1}) = {ra}; {scores}");
+        Assert.True(rt < -0.5, $"r(shift, c{t + 1}) = {rt}; {scores}");
+        Assert.True(rd > 0.5, $"r(stretch, c{d + 1}) = {rd}; {scores}");
         Assert.True(fit.Interpretation.Labels[t].Scores["timing"] > 0);
         Assert.True(fit.Interpretation.Labels[d].Scores["duration"] > 0);
         Assert.True(fit.Interpretation.Labels[a].Scores["amount"] > 0);
+    }
+
+    [Fact]
+    public void Component_1_is_amount_when_it_carries_amount_even_if_its_duration_score_is_a_little_higher()
+    {
+        // Our rule (Interpreter remarks): component 1 scales the mean curve; partial correlations in metric order
+        // onset, meltout, longest_cover, snow_days, peak_depth, peak_day, centroid.
+        double[][] partials =
+        [
+            [-0.1, 0.7, 0.63, 0.6, 0.60, 0.5, 0.2],   // amount 0.60, timing −0.2, duration 0.63
+            [-0.3, -0.6, 0.0, 0.0, 0.1, -0.8, -0.85], // timing 0.85
+            [-0.7, 0.6, 0.72, 0.7, -0.2, 0.0, 0.1],   // duration 0.72
+        ];
+        var components = Enumerable.Range(0, 3).Select(_ => Enumerable.Repeat(1.0 / Math.Sqrt(365), 365).ToArray()).ToArray();
+
+        var labels = Spatial.Fitting.Internal.Interpreter.Label(components, partials, 0.3);
+
+        Assert.Equal(["amount", "timing", "duration"], labels.Select(l => l.Label).ToArray());
+        Assert.Equal(["peak_depth_mm", "centroid_day", "longest_cover_days"], labels.Select(l => l.Metric).ToArray());
+    }
+
+    [Fact]
+    public void A_late_component_is_not_labelled_amount_when_component_1_already_is()
+    {
+        double[][] partials =
+        [
+            [-0.6, 0.8, 0.8, 0.8, 0.95, 0.5, 0.5],
+            [0.1, 0.1, 0.1, 0.1, 0.9, 0.0, 0.05], // amount again (taken), nothing else reaches 0.3
+        ];
+        var components = Enumerable.Range(0, 2).Select(_ => Enumerable.Repeat(1.0 / Math.Sqrt(365), 365).ToArray()).ToArray();
+
+        var labels = Spatial.Fitting.Internal.Interpreter.Label(components, partials, 0.3);
+
+        Assert.Equal(["amount", "other"], labels.Select(l => l.Label).ToArray());
     }
 
     [Fact]

@@ -22,7 +22,7 @@ internal static class ResultsRegression
 
     /// <summary>Season metrics fitted by default besides the labelled components (station medians).</summary>
     public static readonly IReadOnlyList<string> DefaultMetrics =
-        ["median_onset_day", "median_meltout_day", "median_snow_days", "median_longest_cover_days", "median_peak_depth_mm"];
+        ["median_onset_day", "median_meltout_day", "median_centroid_day", "median_snow_days", "median_longest_cover_days", "median_peak_depth_mm"];
 
     /// <summary>Name of the joined table written into the regression folder (reusable with <c>regress --table</c>).</summary>
     public const string JoinedTable = "table.csv";

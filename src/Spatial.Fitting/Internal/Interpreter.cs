@@ -14,13 +14,21 @@ namespace Spatial.Fitting.Internal;
 /// 1…k−1 (for component 1 the plain Pearson r). Component 1 of a snow climate is mostly amount, and its amount also moves
 /// onset, melt-out and snow days; the partial correlation asks what component k adds to a metric once the earlier
 /// components are accounted for, so a timing mode is not hidden behind the amount mode's large raw correlations.</para>
-/// <para>Scores, from the partial correlations p: amount = p(peak_depth_mm); timing = −(p(onset_day) + p(meltout_day))/2,
-/// the two edges moving together (positive = both earlier); duration = (p(meltout_day) − p(onset_day))/2, the edges moving
-/// apart (positive = longer). Labels are handed out in component order (most variance first): each component takes its
-/// largest |score| among the labels no earlier component has taken, when that |score| reaches the minimum; otherwise it
-/// is "other". Component order, not the size of the score, decides, because a late component's partial correlation is
-/// taken on the little variance the earlier components leave and can approach 1 for a small effect. Each component keeps all three scores, so a component that
-/// also carries a second aspect (the data do not separate them) is visible in the output.</para>
+/// <para>Scores, from the partial correlations p: amount = p(peak_depth_mm); timing = −p(centroid_day), the depth-weighted
+/// mean day of the season (positive = the snow lies earlier); duration = p(longest_cover_days), the longest continuous
+/// cover (positive = longer). Timing rests on the centroid rather than on the edges: the centroid uses every day of the
+/// season and a stretch moves it only as far as the curve is lopsided, whereas onset and melt-out each mix timing with
+/// duration (a season whose melt-out alone comes later is both later and longer), and on depth curves the onset edge
+/// (shallow autumn snow) carries so little of the variance that an edge-based score cannot tell a shift from a
+/// stretch. Duration rests on the longest continuous cover (the length of the main snow season), which a shift leaves
+/// unchanged.</para>
+/// <para>Labels are handed out in component order (most variance first): each component takes its largest |score| among
+/// the labels no earlier component has taken, when that |score| reaches the minimum; otherwise it is "other". Component 1,
+/// the mode that scales the mean curve, is amount whenever its amount score reaches the minimum (DESIGN.md orients it as
+/// more snow), even when it carries a second aspect about as strongly. Component order, not the size of the score,
+/// decides, because a late component's partial correlation is taken on the little variance the earlier components leave
+/// and can approach 1 for a small effect. Each component keeps all three scores, so a component that also carries a
+/// second aspect (the data do not separate them) is visible in the output.</para>
 /// </remarks>
 internal static class Interpreter
 {
@@ -32,13 +40,13 @@ internal static class Interpreter
     /// <summary>Names of the label scores, in the order of <see cref="Scores"/>.</summary>
     public static readonly string[] ScoreNames = [Amount, Timing, Duration];
 
-    private const int Onset = 0;
-    private const int Meltout = 1;
+    private const int LongestCover = 2;
     private const int Peak = 4;
+    private const int Centroid = 6;
 
     /// <summary>Amount, timing and duration scores from one component's (partial) correlations with the metrics.</summary>
     public static double[] Scores(double[] p) =>
-        [p[Peak], -(p[Onset] + p[Meltout]) / 2, (p[Meltout] - p[Onset]) / 2];
+        [p[Peak], -p[Centroid], p[LongestCover]];
 
     /// <summary>The aspects whose |score| reaches <paramref name="minScore"/>, largest |score| first (ties in the order amount, timing, duration).</summary>
     public static string[] Aspects(double[] partials, double minScore)
@@ -57,14 +65,23 @@ internal static class Interpreter
     public static (string Label, string Metric, int Sign, string Rule)[] Label(double[][] components, double[][] partials, double minScore)
     {
         var k = components.Length;
-        var metricOf = new[] { "peak_depth_mm", "onset_day+meltout_day", "meltout_day-onset_day" };
+        var metricOf = new[] { "peak_depth_mm", "centroid_day", "longest_cover_days" };
         var chosen = new int[k];
         var taken = new bool[3];
         for (var c = 0; c < k; c++)
         {
-            // In component order (most variance first): the component's largest free |score|, if it reaches the minimum.
+            // In component order (most variance first): the component's largest free |score|, if it reaches the minimum;
+            // component 1, the mode that scales the mean curve (DESIGN.md orients it as more snow), is amount whenever
+            // its amount score reaches the minimum, even if another aspect it also carries scores a little higher.
             var s = Scores(partials[c]);
             chosen[c] = -1;
+            if (c == 0 && double.IsFinite(s[0]) && Math.Abs(s[0]) >= minScore)
+            {
+                chosen[c] = 0;
+                taken[0] = true;
+                continue;
+            }
+
             var best = minScore;
             for (var l = 0; l < 3; l++)
             {
@@ -98,12 +115,12 @@ internal static class Interpreter
             else if (label == Timing)
             {
                 sign = score >= 0 ? 1 : -1;
-                rule = "timing: positive = earlier season (onset and melt-out both earlier: -(p_onset + p_meltout)/2 > 0)";
+                rule = "timing: positive = earlier season (the depth-weighted centre of the season comes earlier: -p_centroid > 0)";
             }
             else if (label == Duration)
             {
                 sign = score >= 0 ? 1 : -1;
-                rule = "duration: positive = longer season (melt-out later and onset earlier: (p_meltout - p_onset)/2 > 0)";
+                rule = "duration: positive = longer season (longer continuous snow cover: p_longest_cover > 0)";
             }
             else if (label == Amount)
             {
