@@ -119,6 +119,41 @@ public sealed class FitVerbTests : IDisposable
     }
 
     [Fact]
+    public void Fit_lists_the_seasons_a_user_asks_for_and_prints_the_label_scores_and_each_em_iteration()
+    {
+        var matrix = WriteMatrix("matrix.parquet");
+        var outDir = Path.Combine(dir, "sel");
+        var (code, output, error) = Run("fit", matrix, "--out", outDir, "--components", "2", "--refine", "--max-iterations", "3", "--select-below", "0.2", "--select-count", "4");
+        Assert.True(code == ExitCodes.Done, error);
+
+        var interpretation = System.Text.Json.Nodes.JsonNode.Parse(File.ReadAllText(Path.Combine(outDir, "interpretation.json")))!;
+        var selection = interpretation["selections"]!.AsArray()[0]!;
+        Assert.Equal(0.2, selection["residual_below"]!.GetValue<double>());
+        Assert.Equal(4, selection["highest"]!.AsArray().Count);
+        Assert.All(selection["highest"]!.AsArray(), s => Assert.True(s!["residual"]!.GetValue<double>() < 0.2));
+        Assert.Contains("EM iteration  1:", output, StringComparison.Ordinal);
+        Assert.Contains("amount  timing  duration", output, StringComparison.Ordinal);
+        Assert.Contains("\"select_below\": \"0.2\"", File.ReadAllText(Path.Combine(outDir, "manifest.json")), StringComparison.Ordinal);
+    }
+
+    [Theory]
+    [InlineData("--select-below", "0")]
+    [InlineData("--select-below", "1.5")]
+    [InlineData("--select-count", "0")]
+    [InlineData("--max-iterations", "0")]
+    [InlineData("--tolerance", "-1")]
+    [InlineData("--threads", "0")]
+    public void Fit_with_an_option_out_of_range_is_bad_usage_and_writes_nothing(string option, string value)
+    {
+        var matrix = WriteMatrix("matrix.parquet");
+        var outDir = Path.Combine(dir, "bad");
+        var (code, _, error) = Run("fit", matrix, "--out", outDir, option, value);
+        Assert.Equal(ExitCodes.BadUsage, code);
+        Assert.Contains(option, error, StringComparison.Ordinal);
+        Assert.False(Directory.Exists(outDir));
+    }
+
+    [Fact]
     public void Fit_with_zero_components_is_bad_usage_and_a_missing_matrix_is_bad_input()
     {
         var outDir = Path.Combine(dir, "o");
