@@ -13,7 +13,7 @@ public sealed record MetricOptions(double ThresholdMm = 25.0, int BridgeDays = 3
 /// <param name="Components">Number of components K kept (1…365; default 4).</param>
 /// <param name="Refine">Run the EM refinement (Beckers &amp; Rixen 2003; Everson &amp; Sirovich 1995) after the pairwise-complete start.</param>
 /// <param name="RefineMaxIterations">Most EM iterations.</param>
-/// <param name="RefineTolerance">EM stops when the RMS change of the filled-in days between iterations, divided by the RMS of the centred observed data, falls below this.</param>
+/// <param name="RefineTolerance">EM stops when the RMS change of the filled-in days between iterations, divided by the RMS of the centred observed data, falls below this, and so does the change still to come estimated from the rate of convergence (at least 1e-8: the covariance is summed in single precision).</param>
 /// <param name="Ridge">Ridge term added to the gappy normal equations, as a fraction of the mean of their diagonal (0 = plain least squares).</param>
 /// <param name="Varimax">Rotate the K components by varimax (Kaiser 1958) before projection.</param>
 /// <param name="Metrics">Season-metric rules.</param>
@@ -25,7 +25,7 @@ public sealed record MetricOptions(double ThresholdMm = 25.0, int BridgeDays = 3
 public sealed record FitOptions(
     int Components = 4,
     bool Refine = false,
-    int RefineMaxIterations = 30,
+    int RefineMaxIterations = 100,
     double RefineTolerance = 1e-4,
     double Ridge = 0.0,
     bool Varimax = false,

@@ -16,7 +16,11 @@ namespace Spatial.Fitting;
 /// Eigen-decomposition of C (Math.NET managed), eigenvalues descending; variance fraction = λ_k / trace(C).</para>
 /// <para>Refinement (optional): EM in the manner of Beckers &amp; Rixen (2003) and Everson &amp; Sirovich (1995): missing days
 /// are filled from the current mean and K components, mean and covariance re-estimated from the filled data, and the
-/// fill recomputed, until the RMS change of the fill ÷ RMS of the observed anomalies drops below the tolerance.</para>
+/// fill recomputed, until the RMS change of the fill ÷ RMS of the observed anomalies, and the change still to come
+/// estimated from the rate of the last two iterations, drop below the tolerance (<c>Settled</c>). Each iteration
+/// finds the leading vectors by a few steps of subspace iteration warm-started from the previous ones; the returned basis
+/// comes from a full decomposition of the final covariance. The covariance is accumulated in single precision, so the
+/// change cannot fall much below 1e-8 of the anomalies: a tolerance under 1e-8 is refused.</para>
 /// <para>Coefficients: gappy least squares on the observed days only (optional ridge). Residuals:
 /// residual_k = √(Σ_obs (x − m − Σ_{i≤k} c_i v_i)²) / √(Σ_obs (x − m)²), residual_0 = 1, with the same coefficients c.</para>
 /// <para>Sampling errors: North et al. (1982), δλ_k = λ_k √(2/N*), N* from the leading coefficients (see
@@ -38,6 +42,18 @@ public static class SeasonalFit
 {
     private const int QuantileCount = 201;
 
+    /// <summary>Vectors the EM's subspace iteration carries beyond the K components (a wider block converges faster).</summary>
+    private const int SubspaceExtraVectors = 8;
+
+    /// <summary>Subspace-iteration steps per EM iteration (warm-started from the previous iteration's vectors).</summary>
+    private const int SubspaceSteps = 2;
+
+    /// <summary>Smallest EM tolerance: the covariance is summed in single precision and the change stalls near 1e-9…3e-9.</summary>
+    public const double MinRefineTolerance = 1e-8;
+
+    /// <summary>Largest convergence rate the EM stopping rule assumes (a tail of at most 99 changes).</summary>
+    private const double MaxRate = 0.99;
+
     /// <summary>Fits a basis to <paramref name="matrix"/> and scores every season. The matrix is not changed.</summary>
     /// <exception cref="SpatialDataException">Fewer than two training seasons, or fewer usable days than components.</exception>
     public static FitResult Fit(SeasonMatrix matrix, FitOptions options, IProgress<double>? progress = null)
@@ -47,6 +63,7 @@ public static class SeasonalFit
         ArgumentOutOfRangeException.ThrowIfLessThan(options.Components, 1);
         ArgumentOutOfRangeException.ThrowIfGreaterThan(options.Components, Layout.Days);
         ArgumentOutOfRangeException.ThrowIfNegative(options.Ridge);
+        ArgumentOutOfRangeException.ThrowIfLessThan(options.RefineTolerance, MinRefineTolerance);
         var k = options.Components;
         var po = Layout.Parallel(options.MaxThreads);
         var train = Enumerable.Range(0, matrix.Rows).Where(r => !matrix.Keys[r].BelowMinDays && matrix.Keys[r].ObservedDays > 0 && matrix.Keys[r].ObservedDays >= options.MinObservedDays).ToArray();
@@ -329,14 +346,18 @@ public static class SeasonalFit
         var obsRms = Math.Sqrt(obsSum2 / Math.Max(1, observedCells));
         var fill = new EmFill(mean, projector.ComponentsByDay, k, coeffs);
         double[] cov = [];
-        double[] values = [];
-        var all = vectors;
+        var block = Math.Min(Layout.Days, k + SubspaceExtraVectors);
+        IReadOnlyList<double[]> lead = vectors.Take(block).ToArray();
+        var previousRelative = double.NaN;
         for (var it = 1; it <= options.RefineMaxIterations; it++)
         {
             var newMean = Covariance.Mean(matrix, train, fill, po, out _);
             cov = Covariance.Estimate(matrix, train, newMean, fill, po, null, out _);
-            (values, all) = SymmetricEigen.Decompose(cov, Layout.Days);
-            var newComponents = all.Take(k).Select(v => ZeroUnusable((double[])v.Clone(), newMean)).ToArray();
+
+            // Only the leading K vectors drive the next fill: a few steps of subspace iteration from the previous
+            // iteration's vectors instead of a full decomposition; the basis returned comes from a full one.
+            (var leadValues, lead) = SymmetricEigen.Leading(cov, Layout.Days, lead, block, SubspaceSteps);
+            var newComponents = lead.Take(k).Select(v => ZeroUnusable((double[])v.Clone(), newMean)).ToArray();
             var newProjector = new GappyProjector(newMean, newComponents, options.Ridge);
             var newCoeffs = new double[(long)train.Length * k];
             var changeParts = new double[chunks.Length];
@@ -390,16 +411,42 @@ public static class SeasonalFit
                 traceNow += cov[(d * Layout.Days) + d];
             }
 
-            steps.Add(new RefinementStep(it, rms, rel, traceNow > 0 ? values.Take(k).Sum() / traceNow : double.NaN));
+            steps.Add(new RefinementStep(it, rms, rel, traceNow > 0 ? leadValues.Take(k).Sum() / traceNow : double.NaN));
             mean = newMean;
             fill = new EmFill(newMean, newProjector.ComponentsByDay, k, newCoeffs);
-            if (rel < options.RefineTolerance)
+            if (Settled(rel, previousRelative, options.RefineTolerance))
             {
+                var (values, all) = SymmetricEigen.Decompose(cov, Layout.Days);
                 return (mean, cov, values, all, true);
             }
+
+            previousRelative = rel;
         }
 
-        return (mean, cov, values, all, false);
+        var (lastValues, lastVectors) = SymmetricEigen.Decompose(cov, Layout.Days);
+        return (mean, cov, lastValues, lastVectors, false);
+    }
+
+    /// <summary>
+    /// EM stopping rule: the change of this iteration and the change still to come are both below the tolerance. The
+    /// changes of a linearly converging iteration shrink by a rate ρ each time, so what is still to come is about
+    /// change × ρ/(1 − ρ) (the geometric tail; ρ from the last two changes, at most 0.99): a slow iteration (ρ near 1)
+    /// must get its change far below the tolerance before it stops, a fast one stops as soon as the change is below it.
+    /// </summary>
+    internal static bool Settled(double relative, double previousRelative, double tolerance)
+    {
+        if (!(relative < tolerance))
+        {
+            return false;
+        }
+
+        if (double.IsNaN(previousRelative))
+        {
+            return true;
+        }
+
+        var rate = previousRelative > 0 ? Math.Min(relative / previousRelative, MaxRate) : MaxRate;
+        return relative * Math.Max(1, rate / (1 - rate)) < tolerance;
     }
 
     private static double[][] Correlations(SeasonScores scores, int[] train, int k, ParallelOptions po)

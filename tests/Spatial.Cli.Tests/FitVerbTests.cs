@@ -142,6 +142,7 @@ public sealed class FitVerbTests : IDisposable
     [InlineData("--select-count", "0")]
     [InlineData("--max-iterations", "0")]
     [InlineData("--tolerance", "-1")]
+    [InlineData("--tolerance", "1e-9")]
     [InlineData("--threads", "0")]
     public void Fit_with_an_option_out_of_range_is_bad_usage_and_writes_nothing(string option, string value)
     {

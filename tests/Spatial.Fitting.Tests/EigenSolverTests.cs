@@ -46,4 +46,52 @@ public sealed class EigenSolverTests
             Tolerance.Near(exact[j] / norm, sign * v[j], VectorTolerance, $"v_n[{j}]");
         }
     }
+
+    [Fact]
+    public void Given_a_matrix_of_known_spectrum_When_its_leading_pairs_are_found_by_subspace_iteration_Then_they_match_the_construction()
+    {
+        // A = S·diag(λ)·S with S_jk = √(2/(n+1))·sin(jkπ/(n+1)), the type-I discrete sine transform, which is symmetric and
+        // orthogonal (a standard result): so A has eigenvalues λ and eigenvectors the columns of S, by construction.
+        const int n = 365;
+        double[] leading = [1000, 400, 150, 60];
+        var lambda = Enumerable.Range(0, n).Select(k => k < leading.Length ? leading[k] : 10 * Math.Pow(0.9, k)).ToArray();
+        var s = new double[n, n];
+        for (var j = 0; j < n; j++)
+        {
+            for (var k = 0; k < n; k++)
+            {
+                s[j, k] = Math.Sqrt(2.0 / (n + 1)) * Math.Sin((j + 1) * (k + 1) * Math.PI / (n + 1));
+            }
+        }
+
+        var a = new double[n * n];
+        for (var i = 0; i < n; i++)
+        {
+            for (var j = 0; j < n; j++)
+            {
+                var sum = 0.0;
+                for (var k = 0; k < n; k++)
+                {
+                    sum += s[i, k] * lambda[k] * s[j, k];
+                }
+
+                a[(i * n) + j] = sum;
+            }
+        }
+
+        // A cold start (the first 12 unit vectors) and 40 steps: the error of pair 4 shrinks by λ_13/λ_4 = 10·0.9¹²/60 per step.
+        var start = Enumerable.Range(0, 12).Select(i => Enumerable.Range(0, n).Select(d => d == i ? 1.0 : 0.0).ToArray()).ToArray();
+
+        var (values, vectors) = SymmetricEigen.Leading(a, n, start, 4, 40);
+
+        for (var k = 0; k < 4; k++)
+        {
+            Tolerance.Relative(leading[k], values[k], 1e-12, $"λ_{k + 1}");
+            var sign = Math.Sign(Enumerable.Range(0, n).Sum(j => s[j, k] * vectors[k][j]));
+            for (var j = 0; j < n; j++)
+            {
+                Tolerance.Near(s[j, k], sign * vectors[k][j], VectorTolerance, $"v_{k + 1}[{j}]");
+            }
+        }
+    }
 }

@@ -156,6 +156,20 @@ public sealed class SeasonalFitTests
         Assert.Throws<SpatialDataException>(() => SeasonalFit.Fit(m, new FitOptions()));
     }
 
+    [Theory]
+    [InlineData(5e-5, double.NaN, 1e-4, true)]    // first iteration: no rate yet, the change alone decides
+    [InlineData(5e-5, 1.7e-4, 1e-4, true)]        // rate 0.29: still to come ≈ 0.41 × the change
+    [InlineData(5e-5, 5.3e-5, 1e-4, false)]       // rate 0.94: still to come ≈ 16 × the change = 8e-4
+    [InlineData(5e-6, 5.3e-6, 1e-4, true)]        // rate 0.94 but the change is small enough: ≈ 8e-5
+    [InlineData(2e-4, 1e-3, 1e-4, false)]         // the change itself is above the tolerance
+    [InlineData(1e-10, 1e-10, 1e-8, true)]        // stalled (rate 1, taken as 0.99): 99 × 1e-10 < 1e-8
+    [InlineData(1e-9, 1e-9, 1e-8, false)]         // stalled: 99 × 1e-9 is not below 1e-8, so the limit is reached unconverged
+    public void The_em_stopping_rule_waits_for_the_change_still_to_come_when_convergence_is_slow(double change, double previous, double tolerance, bool settled)
+    {
+        // Our rule (SeasonalFit.Settled): geometric tail change × ρ/(1 − ρ) with ρ = change ÷ previous change, ρ ≤ 0.99.
+        Assert.Equal(settled, SeasonalFit.Settled(change, previous, tolerance));
+    }
+
     [Fact]
     public void Varimax_keeps_components_orthonormal_and_raises_the_criterion()
     {

@@ -20,7 +20,7 @@ internal static class FitVerb
         var minDaysOpt = new Option<int>("--min-days") { Description = "Seasons with fewer observed days are left out of the basis (still scored and reported).", DefaultValueFactory = _ => 0 };
         var ridgeOpt = new Option<double>("--ridge") { Description = "Ridge term for the per-season least squares, as a fraction of the mean diagonal (0 = none).", DefaultValueFactory = _ => 0.0 };
         var varimaxOpt = new Option<bool>("--varimax") { Description = "Rotate the components by varimax (Kaiser 1958)." };
-        var iterationsOpt = new Option<int>("--max-iterations") { Description = "Most EM iterations with --refine.", DefaultValueFactory = _ => 30 };
+        var iterationsOpt = new Option<int>("--max-iterations") { Description = "Most EM iterations with --refine.", DefaultValueFactory = _ => 100 };
         var toleranceOpt = new Option<double>("--tolerance") { Description = "EM stops when the RMS change of the filled-in days ÷ RMS of the observed anomalies falls below this.", DefaultValueFactory = _ => 1e-4 };
         var selectBelowOpt = new Option<double>("--select-below") { Description = "Selections list only seasons whose residual after the component is below this (0…1).", DefaultValueFactory = _ => 0.5 };
         var selectCountOpt = new Option<int>("--select-count") { Description = "How many seasons each end of a selection (and the best and worst described) lists.", DefaultValueFactory = _ => 10 };
@@ -59,9 +59,9 @@ internal static class FitVerb
             var selectBelow = parseResult.GetValue(selectBelowOpt);
             var selectCount = parseResult.GetValue(selectCountOpt);
             var threads = parseResult.GetValue(threadsOpt);
-            if (iterations < 1 || !(tolerance > 0))
+            if (iterations < 1 || !(tolerance >= SeasonalFit.MinRefineTolerance))
             {
-                throw new UsageException($"--max-iterations must be at least 1 and --tolerance positive; got {iterations} and {tolerance.ToString(CultureInfo.InvariantCulture)}.");
+                throw new UsageException($"--max-iterations must be at least 1 and --tolerance at least 1e-8 (the covariance is summed in single precision); got {iterations} and {tolerance.ToString(CultureInfo.InvariantCulture)}.");
             }
 
             if (!(selectBelow is > 0 and <= 1) || selectCount < 1)
@@ -140,8 +140,16 @@ internal static class FitVerb
             else
             {
                 env.Out.WriteLine(FormattableString.Invariant($"fit: {matrix.Rows} seasons ({b.TrainingSeasons} used for the basis, effective {b.EffectiveSeasons:0.#}), method {b.Method}{(options.Refine ? $", {result.Refinement.Length} EM iterations{(result.Converged ? string.Empty : " (not converged)")}" : string.Empty)}"));
-                foreach (var step in result.Refinement)
+                var em = result.Refinement;
+                for (var i = 0; i < em.Length; i++)
                 {
+                    if (em.Length > 8 && i == 3)
+                    {
+                        env.Out.WriteLine(FormattableString.Invariant($"  … {em.Length - 6} more EM iterations (all of them in interpretation.json)"));
+                        i = em.Length - 3;
+                    }
+
+                    var step = em[i];
                     env.Out.WriteLine(FormattableString.Invariant($"  EM iteration {step.Iteration,2}: fill changed by {step.RmsChangeMm:0.###} mm RMS ({step.RelativeChange:0.###e+0} of the observed anomalies), K components hold {100 * step.LeadingVarianceFraction:0.00} %"));
                 }
 
