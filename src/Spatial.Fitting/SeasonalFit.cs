@@ -108,7 +108,7 @@ public static class SeasonalFit
         StageTimer.Lap(sw, "projection and metrics");
         var correlations = Correlations(scores, train, k, po);
         StageTimer.Lap(sw, "correlations");
-        var partials = Interpreter.PartialCorrelations(scores.Coefficient, (r, m) => scores.Metrics(r)[m], k, SeasonMetrics.Names.Count, train);
+        var partials = PartialCorrelations(scores, train, k, po);
         StageTimer.Lap(sw, "partial correlations");
         var labels = Interpreter.Label(components, partials, options.LabelMinCorrelation);
         for (var c = 0; c < k; c++)
@@ -154,7 +154,27 @@ public static class SeasonalFit
         }
 
         var training = new TrainingDistribution[k];
-        Parallel.For(0, k, po, c => training[c] = Distribution(train.Select(r => scores.Coefficient(r, c))));
+        Parallel.For(
+            0,
+            k,
+            po,
+            () => (Values: new double[train.Length], Scratch: new double[train.Length]),
+            (c, _, buffers) =>
+            {
+                var n = 0;
+                foreach (var r in train)
+                {
+                    var v = scores.Coefficient(r, c);
+                    if (double.IsFinite(v))
+                    {
+                        buffers.Values[n++] = v;
+                    }
+                }
+
+                training[c] = Distribution(buffers.Values.AsSpan(0, n), buffers.Scratch);
+                return buffers;
+            },
+            _ => { });
         StageTimer.Lap(sw, "training distribution");
         var provenance = new SortedDictionary<string, string>(StringComparer.Ordinal)
         {
@@ -404,6 +424,15 @@ public static class SeasonalFit
 
     private static double[][] Correlations(SeasonScores scores, int[] train, int k, ParallelOptions po)
     {
+        // Each (component, metric) pair is summed alone, in row order: the same numbers whatever the thread count.
+        var result = new double[k][];
+        Parallel.For(0, k, po, c => result[c] = Statistics.PearsonWithMetrics(scores, c, train));
+        return result;
+    }
+
+    /// <summary>The interpreter's sequential partial correlations, one metric per task (each metric is computed alone there too).</summary>
+    private static double[][] PartialCorrelations(SeasonScores scores, int[] train, int k, ParallelOptions po)
+    {
         var metrics = SeasonMetrics.Names.Count;
         var result = new double[k][];
         for (var c = 0; c < k; c++)
@@ -411,25 +440,27 @@ public static class SeasonalFit
             result[c] = new double[metrics];
         }
 
-        // Each (component, metric) pair is summed alone, in row order: the same numbers whatever the thread count.
-        Parallel.For(0, k * metrics, po, pair =>
+        Parallel.For(0, metrics, po, m =>
         {
-            var c = pair / metrics;
-            var m = pair % metrics;
-            result[c][m] = Statistics.Pearson(r => scores.Coefficient(r, c), r => scores.Metrics(r)[m], train);
+            var one = Interpreter.PartialCorrelations(scores.Coefficient, (r, _) => scores.Metric(r, m), k, 1, train);
+            for (var c = 0; c < k; c++)
+            {
+                result[c][m] = one[c][0];
+            }
         });
         return result;
     }
 
-    private static TrainingDistribution Distribution(IEnumerable<double> values)
+    /// <summary>Mean, sd and quantiles of finite <paramref name="values"/> (reordered: sorted ascending in place); <paramref name="scratch"/> at least as long.</summary>
+    private static TrainingDistribution Distribution(Span<double> values, Span<double> scratch)
     {
-        var sorted = values.Where(double.IsFinite).ToArray();
-        Array.Sort(sorted);
-        if (sorted.Length == 0)
+        if (values.Length == 0)
         {
             return new TrainingDistribution(double.NaN, double.NaN, []);
         }
 
+        RadixSort.Sort(values, scratch);
+        ReadOnlySpan<double> sorted = values;
         var mean = 0.0;
         foreach (var v in sorted)
         {

@@ -12,7 +12,8 @@ namespace Spatial.Benchmarks;
 /// reading matrix.parquet, <see cref="SeasonalFit.Fit"/>, and writing basis.json, seasons.csv, stations.csv and
 /// interpretation.json as the verb does (<see cref="FitFiles.Write"/>), beside a bare read of the parquet file's bytes
 /// and a bare atomic write of as many bytes as the four outputs, both measured in the same run.
-/// Args: [rows] [--keep DIR] (keep matrix.parquet and the outputs in DIR instead of a temporary folder).
+/// Args: [rows] [--keep DIR] (keep matrix.parquet and the outputs in DIR instead of a temporary folder)
+/// [--matrix PATH] (read this matrix.parquet instead of generating one).
 /// </summary>
 public sealed class FitCliBenchmark : IBenchmark
 {
@@ -23,21 +24,22 @@ public sealed class FitCliBenchmark : IBenchmark
     public void Run(BenchReport report, string[] args)
     {
         var rows = args.Length > 0 && !args[0].StartsWith("--", StringComparison.Ordinal) ? int.Parse(args[0], CultureInfo.InvariantCulture) : 1_000_000;
-        var keepAt = Array.IndexOf(args, "--keep");
-        var keep = keepAt >= 0 && keepAt + 1 < args.Length ? args[keepAt + 1] : null;
+        var keep = Option(args, "--keep");
+        var existing = Option(args, "--matrix");
         var folder = keep ?? Path.Combine(Path.GetTempPath(), $"spatial-bench-fit-cli-{Environment.ProcessId}");
         Directory.CreateDirectory(folder);
         try
         {
-            var path = Path.Combine(folder, "matrix.parquet");
+            var path = existing ?? Path.Combine(folder, "matrix.parquet");
             var outDir = Path.Combine(folder, "out");
             var sw = Stopwatch.StartNew();
-            var generated = FitBenchmark.Generate(rows, 0.3, seed: 20261201);
-            SeasonMatrixFile.Write(path, generated);
-            generated = null;
-            report.Figure("generate and write matrix.parquet (not timed below)", sw.Elapsed.TotalSeconds, "s");
+            if (existing is null)
+            {
+                SeasonMatrixFile.Write(path, FitBenchmark.Generate(rows, 0.3, seed: 20261201));
+                report.Figure("generate and write matrix.parquet (not timed below)", sw.Elapsed.TotalSeconds, "s");
+            }
+
             var matrixBytes = (double)rows * 365 * 4;
-            report.Figure("float32 matrix", matrixBytes / 1e9, "GB");
             GC.Collect();
 
             var buffer = new byte[1 << 20];
@@ -67,6 +69,7 @@ public sealed class FitCliBenchmark : IBenchmark
             sw.Restart();
             var matrix = SeasonMatrixFile.Read(path);
             var read = sw.Elapsed.TotalSeconds;
+            matrixBytes = (double)matrix.Rows * 365 * 4;
             sw.Restart();
             var result = SeasonalFit.Fit(matrix, new FitOptions(Components: 4));
             var fit = sw.Elapsed.TotalSeconds;
@@ -87,6 +90,7 @@ public sealed class FitCliBenchmark : IBenchmark
             var bareWrite = BenchReport.BestSeconds(2, () => AtomicFile.Write(Path.Combine(folder, "bare.bin"), s => s.Write(blob)));
             File.Delete(Path.Combine(folder, "bare.bin"));
 
+            report.Figure("float32 matrix", matrixBytes / 1e9, "GB");
             report.Figure("file size matrix.parquet", new FileInfo(path).Length / 1e6, "MB");
             report.Figure("baseline: bare read of matrix.parquet", bareRead, "s");
             report.Figure("read (SeasonMatrixFile.Read)", read, "s");
@@ -114,5 +118,11 @@ public sealed class FitCliBenchmark : IBenchmark
                 Directory.Delete(folder, recursive: true);
             }
         }
+    }
+
+    private static string? Option(string[] args, string name)
+    {
+        var at = Array.IndexOf(args, name);
+        return at >= 0 && at + 1 < args.Length ? args[at + 1] : null;
     }
 }

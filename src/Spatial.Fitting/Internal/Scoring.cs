@@ -11,7 +11,8 @@ internal static class Scoring
         var rows = matrix.Rows;
         var coefficients = new double[(long)rows * k];
         var residuals = new double[(long)rows * (k + 1)];
-        var metrics = new SeasonMetrics[rows];
+        var metrics = new double[(long)rows * SeasonMetrics.Count];
+        var modelledBare = new int[rows];
         var chunks = Layout.Chunks(rows);
         var memory = matrix.DepthsMemory;
         long done = 0;
@@ -25,13 +26,15 @@ internal static class Scoring
                 var row = span.Slice(r * Layout.Days, Layout.Days);
                 var coef = coefficients.AsSpan(r * k, k);
                 projector.Project(row, coef, residuals.AsSpan(r * (k + 1), k + 1), scratch, out var misfit, reconstruction);
-                metrics[r] = MetricCalculator.Compute(row, metricOptions, AllFinite(coef) ? reconstruction : default, misfit);
+                var m = MetricCalculator.Compute(row, metricOptions, AllFinite(coef) ? reconstruction : default, misfit);
+                m.CopyTo(metrics.AsSpan(r * SeasonMetrics.Count, SeasonMetrics.Count));
+                modelledBare[r] = m.ModelledBareDays;
             }
 
             var total = Interlocked.Add(ref done, chunks[c].End - chunks[c].Start);
             progress?.Invoke((double)total / rows);
         });
-        return new SeasonScores(matrix.Keys, k, coefficients, residuals, metrics);
+        return new SeasonScores(matrix.Keys, k, coefficients, residuals, metrics, modelledBare);
     }
 
     private static bool AllFinite(ReadOnlySpan<double> values)

@@ -1,3 +1,4 @@
+using System.Runtime.Intrinsics;
 using MathNet.Numerics;
 
 namespace Spatial.Fitting.Internal;
@@ -22,9 +23,16 @@ internal static class Trend
             return new MannKendallResult(n, double.NaN, double.NaN, double.NaN, double.NaN);
         }
 
-        var order = IsAscending(x) ? null : SortedOrder(x);
+        var strictly = IsStrictlyAscending(x);
+        var order = strictly || IsAscending(x) ? null : SortedOrder(x);
         long s = 0;
-        for (var i = 0; i < n; i++)
+        for (var i = 0; i < n && strictly; i++)
+        {
+            // x strictly ascending: every pair counts, and sign(y_j − y_i) = [y_j > y_i] − [y_j < y_i] for finite y.
+            s += SignSum(y[(i + 1)..], y[i]);
+        }
+
+        for (var i = 0; i < n && !strictly; i++)
         {
             var oi = order is null ? i : order[i];
             for (var j = i + 1; j < n; j++)
@@ -80,7 +88,15 @@ internal static class Trend
 
         var slopes = System.Buffers.ArrayPool<double>.Shared.Rent(n * (n - 1) / 2);
         var m = 0;
-        for (var i = 0; i < n; i++)
+        var strictly = IsStrictlyAscending(x);
+        for (var i = 0; i < n && strictly; i++)
+        {
+            // x strictly ascending: every pair has a slope, written in the same order as below.
+            Slopes(x[(i + 1)..], y[(i + 1)..], x[i], y[i], slopes.AsSpan(m, n - 1 - i));
+            m += n - 1 - i;
+        }
+
+        for (var i = 0; i < n && !strictly; i++)
         {
             for (var j = i + 1; j < n; j++)
             {
@@ -173,6 +189,66 @@ internal static class Trend
         var lo = (int)Math.Floor(h);
         var hi = Math.Min(lo + 1, sorted.Length - 1);
         return sorted[lo] + ((h - lo) * (sorted[hi] - sorted[lo]));
+    }
+
+    /// <summary>Σ_j sign(y_j − <paramref name="yi"/>) over finite <paramref name="y"/>, four at a time.</summary>
+    private static long SignSum(ReadOnlySpan<double> y, double yi)
+    {
+        var j = 0;
+        long s = 0;
+        if (Vector256.IsHardwareAccelerated)
+        {
+            var pivot = Vector256.Create(yi);
+            var acc = Vector256<long>.Zero;
+            for (; j + 4 <= y.Length; j += 4)
+            {
+                var v = Vector256.Create(y.Slice(j, 4));
+                // Comparison masks are −1 where true: (lt − gt) counts +1 for y_j > y_i.
+                acc += Vector256.LessThan(v, pivot).AsInt64() - Vector256.GreaterThan(v, pivot).AsInt64();
+            }
+
+            s = Vector256.Sum(acc);
+        }
+
+        for (; j < y.Length; j++)
+        {
+            s += Math.Sign(y[j] - yi);
+        }
+
+        return s;
+    }
+
+    /// <summary>(y_j − <paramref name="yi"/>) / (x_j − <paramref name="xi"/>) for every j, into <paramref name="slopes"/>.</summary>
+    private static void Slopes(ReadOnlySpan<double> x, ReadOnlySpan<double> y, double xi, double yi, Span<double> slopes)
+    {
+        var j = 0;
+        if (Vector256.IsHardwareAccelerated)
+        {
+            var px = Vector256.Create(xi);
+            var py = Vector256.Create(yi);
+            for (; j + 4 <= y.Length; j += 4)
+            {
+                ((Vector256.Create(y.Slice(j, 4)) - py) / (Vector256.Create(x.Slice(j, 4)) - px)).CopyTo(slopes.Slice(j, 4));
+            }
+        }
+
+        for (; j < y.Length; j++)
+        {
+            slopes[j] = (y[j] - yi) / (x[j] - xi);
+        }
+    }
+
+    private static bool IsStrictlyAscending(ReadOnlySpan<double> x)
+    {
+        for (var i = 1; i < x.Length; i++)
+        {
+            if (!(x[i] > x[i - 1]))
+            {
+                return false;
+            }
+        }
+
+        return true;
     }
 
     private static bool IsAscending(ReadOnlySpan<double> x)
