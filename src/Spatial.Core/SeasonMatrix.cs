@@ -1,3 +1,6 @@
+using System.Numerics;
+using System.Runtime.Intrinsics;
+
 namespace Spatial.Core;
 
 /// <summary>One row of a <see cref="SeasonMatrix"/>: a station's season.</summary>
@@ -46,15 +49,7 @@ public sealed class SeasonMatrix
                 }
             }
 
-            var observed = 0;
-            var row = depthsMm.AsSpan(i * SeasonCalendar.DaysPerSeason, SeasonCalendar.DaysPerSeason);
-            foreach (var v in row)
-            {
-                if (!float.IsNaN(v))
-                {
-                    observed++;
-                }
-            }
+            var observed = CountObserved(depthsMm.AsSpan(i * SeasonCalendar.DaysPerSeason, SeasonCalendar.DaysPerSeason));
 
             if (observed != keys[i].ObservedDays)
             {
@@ -81,6 +76,28 @@ public sealed class SeasonMatrix
 
     /// <summary>All depths as memory (for parallel loops), row-major, millimetres, NaN for missing.</summary>
     public ReadOnlyMemory<float> DepthsMemory => depthsMm;
+
+    /// <summary>Values of <paramref name="row"/> that are not NaN, eight at a time.</summary>
+    private static int CountObserved(ReadOnlySpan<float> row)
+    {
+        var observed = 0;
+        var i = 0;
+        if (Vector256.IsHardwareAccelerated)
+        {
+            for (; i + 8 <= row.Length; i += 8)
+            {
+                var v = Vector256.Create(row.Slice(i, 8));
+                observed += BitOperations.PopCount(Vector256.Equals(v, v).ExtractMostSignificantBits());
+            }
+        }
+
+        for (; i < row.Length; i++)
+        {
+            observed += float.IsNaN(row[i]) ? 0 : 1;
+        }
+
+        return observed;
+    }
 
     /// <summary>The 365 depths of row <paramref name="row"/>, millimetres, NaN for missing.</summary>
     public ReadOnlySpan<float> Row(int row) => depthsMm.AsSpan(checked(row * SeasonCalendar.DaysPerSeason), SeasonCalendar.DaysPerSeason);

@@ -50,6 +50,22 @@ public sealed class SeasonMatrixFileTests : IDisposable
     }
 
     [Fact]
+    public void A_matrix_in_many_row_groups_reads_back_bit_for_bit_and_a_station_across_groups_keeps_one_id_instance()
+    {
+        // Given 9 stations × 7 seasons in row groups of 19 rows (groups are read in parallel, days in blocks of 8 rows × 8 days and a remainder)
+        var matrix = Sample(9, 7, seed: 23);
+        var path = Path.Combine(folder, "groups.parquet");
+        SeasonMatrixFile.Write(path, matrix, rowGroupRows: 19);
+
+        // When read back
+        var back = SeasonMatrixFile.Read(path);
+
+        // Then every key and depth is the same, and rows 18 and 19 (one station, two groups) share the id's string
+        AssertSame(matrix, back);
+        Assert.Same(back.Keys[18].Station.Value, back.Keys[19].Station.Value);
+    }
+
+    [Fact]
     public void A_written_matrix_reads_back_bit_for_bit_with_its_keys_and_calendar()
     {
         var matrix = Sample(7, 5, seed: 11, calendar: new SeasonCalendar(3, 1));
