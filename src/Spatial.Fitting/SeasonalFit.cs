@@ -49,7 +49,7 @@ public static class SeasonalFit
         ArgumentOutOfRangeException.ThrowIfNegative(options.Ridge);
         var k = options.Components;
         var po = Layout.Parallel(options.MaxThreads);
-        var train = Enumerable.Range(0, matrix.Rows).Where(r => !matrix.Keys[r].BelowMinDays && matrix.Keys[r].ObservedDays > 0 && matrix.Keys[r].ObservedDays >= options.MinObservedDays).ToArray();
+        var train = TrainingRows(matrix, options.MinObservedDays);
         if (train.Length < 2)
         {
             throw new SpatialDataException("season matrix", 0, $"{train.Length} season(s) have enough observed days to estimate a basis; at least 2 are needed", "lower the minimum observed days or add seasons");
@@ -158,7 +158,7 @@ public static class SeasonalFit
             0,
             k,
             po,
-            () => (Values: new double[train.Length], Scratch: new double[train.Length]),
+            () => (Values: LargeArrays.AllocateUninitialized<double>(train.Length), Scratch: LargeArrays.AllocateUninitialized<double>(train.Length)),
             (c, _, buffers) =>
             {
                 var n = 0;
@@ -420,6 +420,31 @@ public static class SeasonalFit
         }
 
         return (mean, cov, values, all, false);
+    }
+
+    /// <summary>Rows not flagged below the minimum, with observed days, and at least <paramref name="minObservedDays"/> of them, in row order.</summary>
+    private static int[] TrainingRows(SeasonMatrix matrix, int minObservedDays)
+    {
+        var keys = matrix.Keys;
+        var count = 0;
+        for (var r = 0; r < matrix.Rows; r++)
+        {
+            count += IsTraining(keys[r]) ? 1 : 0;
+        }
+
+        var train = new int[count];
+        var t = 0;
+        for (var r = 0; r < matrix.Rows; r++)
+        {
+            if (IsTraining(keys[r]))
+            {
+                train[t++] = r;
+            }
+        }
+
+        return train;
+
+        bool IsTraining(SeasonKey key) => !key.BelowMinDays && key.ObservedDays > 0 && key.ObservedDays >= minObservedDays;
     }
 
     private static double[][] Correlations(SeasonScores scores, int[] train, int k, ParallelOptions po)

@@ -9,10 +9,11 @@ internal static class Scoring
     {
         var k = projector.K;
         var rows = matrix.Rows;
-        var coefficients = new double[(long)rows * k];
-        var residuals = new double[(long)rows * (k + 1)];
-        var metrics = new double[(long)rows * SeasonMetrics.Count];
-        var modelledBare = new int[rows];
+        // Every row's slots are written below (NaN where a row gets no coefficients).
+        var coefficients = LargeArrays.AllocateUninitialized<double>(rows * k);
+        var residuals = LargeArrays.AllocateUninitialized<double>(rows * (k + 1));
+        var metrics = LargeArrays.AllocateUninitialized<double>(rows * SeasonMetrics.Count);
+        var modelledBare = LargeArrays.AllocateUninitialized<int>(rows);
         var chunks = Layout.Chunks(rows);
         var memory = matrix.DepthsMemory;
         long done = 0;

@@ -1,3 +1,5 @@
+using Spatial.Core;
+
 namespace Spatial.Fitting.Internal;
 
 /// <summary>Small statistics used by the interpretation and the sampling errors.</summary>
@@ -127,8 +129,8 @@ internal static class Statistics
     {
         icc = 0;
         r1 = 0;
-        var values = new double[train.Length];
-        var valid = new int[train.Length];
+        var values = LargeArrays.AllocateUninitialized<double>(train.Length);
+        var valid = LargeArrays.AllocateUninitialized<int>(train.Length);
         var n = 0;
         foreach (var r in train)
         {
@@ -155,7 +157,7 @@ internal static class Statistics
         grand /= n;
 
         // Groups by season year, in order of first appearance, rows in order within each (as a GroupBy would give).
-        var groupOf = new int[n];
+        var groupOf = LargeArrays.AllocateUninitialized<int>(n);
         var groupIds = new Dictionary<int, int>();
         var sizes = new List<int>();
         for (var t = 0; t < n; t++)
@@ -181,7 +183,7 @@ internal static class Statistics
                 starts[i + 1] = starts[i] + sizes[i];
             }
 
-            var members = new double[n];
+            var members = LargeArrays.AllocateUninitialized<double>(n);
             var fill = starts[..g];
             for (var t = 0; t < n; t++)
             {
