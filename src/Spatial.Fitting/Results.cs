@@ -111,6 +111,9 @@ public sealed class SeasonScores
     /// <summary>Metric number <paramref name="metric"/> (order of <see cref="SeasonMetrics.Names"/>) of row <paramref name="row"/>.</summary>
     internal double Metric(int row, int metric) => metricValues[(row * SeasonMetrics.Count) + metric];
 
+    /// <summary>Modelled-bare days of row <paramref name="row"/> (<see cref="SeasonMetrics.ModelledBareDays"/>).</summary>
+    internal int ModelledBareDays(int row) => modelledBareDays[row];
+
     internal ReadOnlySpan<double> CoefficientRow(int row) => coefficients.AsSpan(row * K, K);
 
     /// <summary>Multiplies each coefficient column by its sign (+1/−1), in place, before the scores are handed out.</summary>
