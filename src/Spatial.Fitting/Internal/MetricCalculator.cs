@@ -145,6 +145,7 @@ internal static class MetricCalculator
             missing[w] = ~observed[w] & ValidDays(w);
         }
 
+        BridgeShortRuns(missing, snow, bridged, options.BridgeDays);
         var anyUnknown = false;
         var modelledDays = 0;
 
@@ -153,6 +154,7 @@ internal static class MetricCalculator
         var hiddenMax = double.NegativeInfinity;
         for (var a = NextSet(missing, 0); a < D;)
         {
+            // Runs bridged in bulk are gone from the missing mask; a longer bridgeable run (bridge days ≥ 64) is bridged here.
             var end = NextClear(missing, a);
             var b = end - 1;
             var length = end - a;
@@ -226,6 +228,57 @@ internal static class MetricCalculator
 
         var centroid = Centroid(xs, observed, bridged, modelled, t, modelledDays);
         return new SeasonMetrics(onset, meltout, longest, PopCount(snow), peakDepth, peakAt, centroid) { ModelledBareDays = modelledDays };
+    }
+
+    /// <summary>
+    /// Bridges, all at once, every missing run of at most <paramref name="bridgeDays"/> days (up to 63) that lies inside
+    /// the season and whose two flanking observed days are on the same side of the threshold: marks its days in
+    /// <paramref name="bridged"/>, in <paramref name="snow"/> when the flanks are snow, and removes them from
+    /// <paramref name="missing"/>. Runs of each length k are found with shifts of the masks: a run starts where a day is
+    /// missing and the day before is not, is k long where days i…i+k−1 are missing and day i+k is not.
+    /// </summary>
+    private static void BridgeShortRuns(Span<ulong> missing, Span<ulong> snow, Span<ulong> bridged, int bridgeDays)
+    {
+        var m = new DayBits(missing);
+        var longest = Math.Min(bridgeDays, 63);
+        if (longest < 1 || m.IsEmpty)
+        {
+            return;
+        }
+
+        var s = new DayBits(snow);
+        var starts = m.AndNot(m.Later(1));
+        var leftSnow = s.Later(1);
+        var runsAtLeast = m;
+        DayBits days = default, snowDays = default;
+        for (var k = 1; k <= longest; k++)
+        {
+            var next = m.Earlier(k);
+            var agree = (starts & runsAtLeast).AndNot(next) & DayBits.Range(1, D - 1 - k) & ~(leftSnow ^ s.Earlier(k));
+            if (!agree.IsEmpty)
+            {
+                var run = agree;
+                var snowRun = agree & leftSnow;
+                for (var j = 1; j < k; j++)
+                {
+                    run |= agree.Later(j);
+                    snowRun |= (agree & leftSnow).Later(j);
+                }
+
+                days |= run;
+                snowDays |= snowRun;
+            }
+
+            runsAtLeast &= next;
+            if ((runsAtLeast & starts).IsEmpty)
+            {
+                break;
+            }
+        }
+
+        days.CopyTo(bridged);
+        (s | snowDays).CopyTo(snow);
+        m.AndNot(days).CopyTo(missing);
     }
 
     /// <summary>The least float f with (double)f ≥ <paramref name="threshold"/>: for every float x, x ≥ f exactly when (double)x ≥ threshold.</summary>
@@ -414,6 +467,79 @@ internal static class MetricCalculator
         }
 
         return high - low <= CentroidToleranceDays ? (low + high) / 2 : double.NaN;
+    }
+
+    /// <summary>365 day bits in six words, with shifts that carry across words; bits 365… stay clear.</summary>
+    private readonly struct DayBits
+    {
+        private const ulong LastWord = (1UL << (D % 64)) - 1;
+
+        private readonly ulong w0, w1, w2, w3, w4, w5;
+
+        public DayBits(ReadOnlySpan<ulong> words)
+            : this(words[0], words[1], words[2], words[3], words[4], words[5])
+        {
+        }
+
+        private DayBits(ulong w0, ulong w1, ulong w2, ulong w3, ulong w4, ulong w5)
+        {
+            this.w0 = w0;
+            this.w1 = w1;
+            this.w2 = w2;
+            this.w3 = w3;
+            this.w4 = w4;
+            this.w5 = w5 & LastWord;
+        }
+
+        public bool IsEmpty => (w0 | w1 | w2 | w3 | w4 | w5) == 0;
+
+        public static DayBits operator &(DayBits a, DayBits b) => new(a.w0 & b.w0, a.w1 & b.w1, a.w2 & b.w2, a.w3 & b.w3, a.w4 & b.w4, a.w5 & b.w5);
+
+        public static DayBits operator |(DayBits a, DayBits b) => new(a.w0 | b.w0, a.w1 | b.w1, a.w2 | b.w2, a.w3 | b.w3, a.w4 | b.w4, a.w5 | b.w5);
+
+        public static DayBits operator ^(DayBits a, DayBits b) => new(a.w0 ^ b.w0, a.w1 ^ b.w1, a.w2 ^ b.w2, a.w3 ^ b.w3, a.w4 ^ b.w4, a.w5 ^ b.w5);
+
+        public static DayBits operator ~(DayBits a) => new(~a.w0, ~a.w1, ~a.w2, ~a.w3, ~a.w4, ~a.w5);
+
+        /// <summary>Days d with d ≥ <paramref name="first"/> and d ≤ <paramref name="last"/> (empty when last &lt; first).</summary>
+        public static DayBits Range(int first, int last)
+        {
+            if (last < first)
+            {
+                return default;
+            }
+
+            Span<ulong> w = stackalloc ulong[Words];
+            w.Clear();
+            SetRange(w, first, last + 1);
+            return new DayBits(w);
+        }
+
+        public DayBits AndNot(DayBits b) => new(w0 & ~b.w0, w1 & ~b.w1, w2 & ~b.w2, w3 & ~b.w3, w4 & ~b.w4, w5 & ~b.w5);
+
+        /// <summary>Bit d holds day d − <paramref name="k"/> (1 ≤ k ≤ 63).</summary>
+        public DayBits Later(int k)
+        {
+            var r = 64 - k;
+            return new(w0 << k, (w1 << k) | (w0 >> r), (w2 << k) | (w1 >> r), (w3 << k) | (w2 >> r), (w4 << k) | (w3 >> r), (w5 << k) | (w4 >> r));
+        }
+
+        /// <summary>Bit d holds day d + <paramref name="k"/> (1 ≤ k ≤ 63).</summary>
+        public DayBits Earlier(int k)
+        {
+            var r = 64 - k;
+            return new((w0 >> k) | (w1 << r), (w1 >> k) | (w2 << r), (w2 >> k) | (w3 << r), (w3 >> k) | (w4 << r), (w4 >> k) | (w5 << r), w5 >> k);
+        }
+
+        public void CopyTo(Span<ulong> words)
+        {
+            words[0] = w0;
+            words[1] = w1;
+            words[2] = w2;
+            words[3] = w3;
+            words[4] = w4;
+            words[5] = w5;
+        }
     }
 
     /// <summary>Bits of word <paramref name="w"/> that are days of the season (0…364).</summary>
