@@ -115,67 +115,76 @@ internal static class Trend
         }
 
         var span = slopes.AsSpan(0, m);
-        var upper = Select(span, m / 2);
-        var median = m % 2 == 1 ? upper : 0.5 * (Max(span[..(m / 2)]) + upper);
+        var work = System.Buffers.ArrayPool<double>.Shared.Rent(m);
+        var spare = System.Buffers.ArrayPool<double>.Shared.Rent(m);
+        var upper = OrderStatistic(span, m / 2, work, spare);
+        var median = m % 2 == 1 ? upper : 0.5 * (OrderStatistic(span, (m / 2) - 1, work, spare) + upper);
+        System.Buffers.ArrayPool<double>.Shared.Return(spare);
+        System.Buffers.ArrayPool<double>.Shared.Return(work);
         System.Buffers.ArrayPool<double>.Shared.Return(slopes);
         return median;
     }
 
-    /// <summary>The value of rank <paramref name="rank"/> (0-based) of <paramref name="v"/>, which is reordered so that v[..rank] ≤ v[rank] (Hoare's selection).</summary>
-    internal static double Select(Span<double> v, int rank)
+    /// <summary>
+    /// The value of rank <paramref name="rank"/> (0-based, ascending) among <paramref name="values"/> (no NaN), which
+    /// are left as they are; <paramref name="work"/> and <paramref name="spare"/>, each at least as long, are overwritten.
+    /// </summary>
+    /// <remarks>
+    /// Quickselect (Hoare 1961) with a three-way partition written without branches: each value is stored both after the
+    /// smaller ones and before the larger ones found so far, and only the matching end moves; the values equal to the
+    /// pivot are left in the middle. The partitions alternate between the two buffers. A range of 16 or fewer values, or
+    /// one still open after 64 partitions, is sorted.
+    /// </remarks>
+    internal static double OrderStatistic(ReadOnlySpan<double> values, int rank, Span<double> work, Span<double> spare)
     {
-        int lo = 0, hi = v.Length - 1;
-        while (lo < hi)
+        ArgumentOutOfRangeException.ThrowIfNegative(rank);
+        ArgumentOutOfRangeException.ThrowIfGreaterThanOrEqual(rank, values.Length);
+        var from = work[..values.Length];
+        var to = spare[..values.Length];
+        values.CopyTo(from);
+        int lo = 0, hi = values.Length;
+        for (var pass = 0; ; pass++)
         {
-            var pivot = v[lo + ((hi - lo) / 2)];
-            int i = lo, j = hi;
-            while (i <= j)
+            var n = hi - lo;
+            if (n <= 16 || pass == 64)
             {
-                while (v[i] < pivot)
-                {
-                    i++;
-                }
-
-                while (v[j] > pivot)
-                {
-                    j--;
-                }
-
-                if (i <= j)
-                {
-                    (v[i], v[j]) = (v[j], v[i]);
-                    i++;
-                    j--;
-                }
+                var range = from[lo..hi];
+                range.Sort();
+                return range[rank - lo];
             }
 
-            if (rank <= j)
+            var pivot = MedianOfThree(from[lo], from[lo + (n / 2)], from[hi - 1]);
+            int less = lo, greater = hi;
+            for (var i = lo; i < hi; i++)
             {
-                hi = j;
+                var x = from[i];
+                to[less] = x;
+                to[greater - 1] = x;
+                less += x < pivot ? 1 : 0;
+                greater -= x > pivot ? 1 : 0;
             }
-            else if (rank >= i)
+
+            if (rank < less)
             {
-                lo = i;
+                hi = less;
+            }
+            else if (rank >= greater)
+            {
+                lo = greater;
             }
             else
             {
-                break;
+                return pivot;
             }
-        }
 
-        return v[rank];
+            var swap = from;
+            from = to;
+            to = swap;
+        }
     }
 
-    private static double Max(ReadOnlySpan<double> v)
-    {
-        var m = double.NegativeInfinity;
-        foreach (var x in v)
-        {
-            m = Math.Max(m, x);
-        }
-
-        return m;
-    }
+    private static double MedianOfThree(double a, double b, double c) =>
+        a < b ? (b < c ? b : (a < c ? c : a)) : (a < c ? a : (b < c ? c : b));
 
     /// <summary>Quantile of sorted values by linear interpolation between order statistics (Hyndman &amp; Fan 1996 type 7, numpy's default); NaN when empty.</summary>
     public static double Quantile(ReadOnlySpan<double> sorted, double probability)
