@@ -12,12 +12,15 @@ namespace Spatial.Core;
 /// The advice changes neither contents nor semantics; it is skipped silently where the system does not take it (not
 /// Linux, transparent huge pages disabled, a kernel before 5.14 without <c>MADV_POPULATE_WRITE</c>). Measured on the
 /// 2-core benchmark machine (a virtual machine where a first touch is expensive): a 1.46 GB float array took 2.3–4.9 s
-/// to touch page by page and 0.2–2.3 s with the advice.
+/// to touch page by page, 0.2–2.5 s with the advice, 0.1–1.2 s with large ranges populated on both cores.
 /// </remarks>
 internal static partial class LargeArrays
 {
     /// <summary>Arrays of at least this many bytes are advised (smaller ones gain nothing from huge pages).</summary>
     public const long AdviseBytes = 4L << 20;
+
+    /// <summary>Ranges of at least this many bytes are populated by several threads.</summary>
+    private const long ParallelBytes = 64L << 20;
 
     private const int MadvHugePage = 14;
     private const int MadvPopulateWrite = 23;
@@ -58,13 +61,33 @@ internal static partial class LargeArrays
             {
                 // Advice only: a failure (EINVAL on an old kernel, THP off) leaves ordinary page faults.
                 _ = Madvise(start, end - start, MadvHugePage);
-                _ = Madvise(start, end - start, MadvPopulateWrite);
+                Populate(start, end);
             }
         }
         finally
         {
             handle.Free();
         }
+    }
+
+    /// <summary>Populates [start, end) on every core at once for a large range (the kernel's work per page runs in parallel), in one call otherwise.</summary>
+    private static void Populate(nuint start, nuint end)
+    {
+        const nuint hugePage = 2 << 20;
+        var parts = (int)Math.Min(Environment.ProcessorCount, (long)((end - start) / (ParallelBytes / 2)));
+        if (parts < 2)
+        {
+            _ = Madvise(start, end - start, MadvPopulateWrite);
+            return;
+        }
+
+        var part = (end - start) / (nuint)parts & ~(hugePage - 1);
+        Parallel.For(0, parts, new ParallelOptions { MaxDegreeOfParallelism = parts }, i =>
+        {
+            var from = start + ((nuint)i * part);
+            var to = i == parts - 1 ? end : from + part;
+            _ = Madvise(from, to - from, MadvPopulateWrite);
+        });
     }
 
     [LibraryImport("libc", EntryPoint = "madvise")]

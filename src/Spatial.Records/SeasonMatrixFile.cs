@@ -2,6 +2,7 @@ using System.Globalization;
 using System.Runtime.ExceptionServices;
 using System.Runtime.Intrinsics;
 using System.Runtime.Intrinsics.X86;
+using Microsoft.Win32.SafeHandles;
 using Parquet;
 using Parquet.Schema;
 using Spatial.Core;
@@ -17,8 +18,9 @@ namespace Spatial.Records;
 /// </summary>
 /// <remarks>
 /// Written in row groups of <see cref="RowGroupRows"/> rows, uncompressed (Snappy made reading five times slower in a 200,000-row benchmark for a 30 % smaller file). Read
-/// one row group per worker at a time (each worker with its own reader), a few day columns at a time copied into the rows. A day
-/// column written by another tool may be nullable: a null is read as NaN.
+/// one row group per worker at a time (each worker with its own reader), a few day columns at a time copied into the rows; a day
+/// column chunk that is one plain uncompressed page, as written here, is copied straight from the file (<see cref="PlainFloatPages"/>).
+/// A day column written by another tool may be nullable: a null is read as NaN.
 /// </remarks>
 public static class SeasonMatrixFile
 {
@@ -189,6 +191,7 @@ public static class SeasonMatrixFile
         // does not stop the others; the failure of the first failing group in file order is the one reported.
         var failures = new ExceptionDispatchInfo?[reader.RowGroupCount];
         var largestGroup = groupRows.Length > 0 ? groupRows.Max() : 0;
+        using var file = File.OpenHandle(path, FileMode.Open, FileAccess.Read, FileShare.Read, FileOptions.RandomAccess);
         async Task ReadGroups(ParquetReader own, int first, int step)
         {
             var tile = new float[DayTile * largestGroup];
@@ -196,7 +199,7 @@ public static class SeasonMatrixFile
             {
                 try
                 {
-                    await ReadGroup(own, g, (int)groupStart[g], groupRows[g], stationField, seasonField, observedField, belowField, dayFields, keys, depths, tile, path).ConfigureAwait(false);
+                    await ReadGroup(own, file, g, (int)groupStart[g], groupRows[g], stationField, seasonField, observedField, belowField, dayFields, keys, depths, tile, path).ConfigureAwait(false);
                 }
                 catch (Exception e)
                 {
@@ -248,6 +251,7 @@ public static class SeasonMatrixFile
     /// <summary>Reads row group <paramref name="g"/> into <paramref name="keys"/> and <paramref name="depths"/> from row <paramref name="offset"/>; <paramref name="tile"/> holds <see cref="DayTile"/> columns of the group.</summary>
     private static async Task ReadGroup(
         ParquetReader reader,
+        SafeFileHandle file,
         int g,
         int offset,
         int n,
@@ -316,7 +320,7 @@ public static class SeasonMatrixFile
                         span[r] = nullable[r] ?? float.NaN;
                     }
                 }
-                else
+                else if (!PlainFloatPages.TryRead(file, group, field, column.Span))
                 {
                     await group.ReadAsync<float>(field, column).ConfigureAwait(false);
                 }
