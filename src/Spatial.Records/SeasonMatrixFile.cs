@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Runtime.CompilerServices;
 using System.Runtime.ExceptionServices;
 using System.Runtime.Intrinsics;
 using System.Runtime.Intrinsics.X86;
@@ -363,6 +364,7 @@ public static class SeasonMatrixFile
     }
 
     /// <summary>Rows r…r+7 of columns j…j+7 of the tile into days j…j+7 of those rows.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private static void Transpose8(ReadOnlySpan<float> tile, int n, int r, int j, Span<float> destination)
     {
         const int days = SeasonCalendar.DaysPerSeason;

@@ -86,6 +86,7 @@ internal sealed class GappyProjector
     /// Branch-free over days: y_d = x_d − m_d on observed usable days and 0 otherwise, w_d the matching 0/1 mask; the normal
     /// equations G = Σ w_d v_d v_dᵀ and b = Σ y_d v_d are summed over days in 4-wide vectors.
     /// </remarks>
+    [SkipLocalsInit]
     public unsafe void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch, out double rmsMisfitMm, Span<double> reconstruction)
     {
         ArgumentOutOfRangeException.ThrowIfLessThan(row.Length, Layout.Days);
@@ -183,6 +184,7 @@ internal sealed class GappyProjector
     }
 
     /// <summary>K ≤ 4: G and b in registers, one pass over the days (components padded with zeros to 4).</summary>
+    [SkipLocalsInit]
     private static unsafe void NormalEquations4(float* px, double* pm, double* pu, double* pv, double* pys, double* pws, double* pg, double* pb, int k, out double n, out double yy)
     {
         var one = Vector256.Create(1.0);
@@ -294,6 +296,7 @@ internal sealed class GappyProjector
     }
 
     /// <summary>Writes the K+1 residuals (and the reconstruction when asked) and returns the sum of squares after all K components.</summary>
+    [SkipLocalsInit]
     private unsafe double Residuals(ReadOnlySpan<double> ys, ReadOnlySpan<double> ws, ReadOnlySpan<double> c, Span<double> residuals, double yy, Span<double> sums, Span<double> reconstruction)
     {
         var k = K;

@@ -1,4 +1,5 @@
 using System.Numerics;
+using System.Runtime.CompilerServices;
 using System.Runtime.Intrinsics;
 using System.Runtime.Intrinsics.X86;
 
@@ -119,6 +120,7 @@ internal static class MetricCalculator
     /// (<paramref name="reconstruction"/>, 365 days or more, +∞ on a day whose mean is NaN; empty = no model) and its RMS
     /// misfit on the observed days, mm (used with a model only).
     /// </summary>
+    [SkipLocalsInit]
     public static SeasonMetrics Compute(ReadOnlySpan<float> row, MetricOptions options, ReadOnlySpan<double> reconstruction, double rmsMisfitMm)
     {
         ArgumentOutOfRangeException.ThrowIfNotEqual(row.Length, D);
@@ -140,6 +142,9 @@ internal static class MetricCalculator
         Span<ulong> bridged = stackalloc ulong[Words];
         Span<ulong> modelled = stackalloc ulong[Words];
         Span<ulong> unknown = stackalloc ulong[Words];
+        bridged.Clear();
+        modelled.Clear();
+        unknown.Clear();
         for (var w = 0; w < Words; w++)
         {
             missing[w] = ~observed[w] & ValidDays(w);
@@ -396,6 +401,7 @@ internal static class MetricCalculator
     /// </summary>
     /// <remarks>Sums run in day order; days without a depth add nothing, so only the stretch between the first and the
     /// last nonzero depth is summed.</remarks>
+    [SkipLocalsInit]
     private static double Centroid(ReadOnlySpan<float> xs, ReadOnlySpan<ulong> observed, ReadOnlySpan<ulong> bridged, ReadOnlySpan<ulong> modelled, double t, int modelledDays)
     {
         Span<double> depth = stackalloc double[PaddedFloats];

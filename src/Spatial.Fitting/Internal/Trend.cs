@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 using System.Runtime.Intrinsics;
 using MathNet.Numerics;
 
@@ -132,13 +134,16 @@ internal static class Trend
     /// <remarks>
     /// Quickselect (Hoare 1961) with a three-way partition written without branches: each value is stored both after the
     /// smaller ones and before the larger ones found so far, and only the matching end moves; the values equal to the
-    /// pivot are left in the middle. The partitions alternate between the two buffers. A range of 16 or fewer values, or
-    /// one still open after 64 partitions, is sorted.
+    /// pivot are left in the middle (a comparison is added as its byte, 0 or 1). The partitions alternate between the two buffers. A range of 16 or fewer values, or
+    /// one still open after 64 partitions, is sorted. (A Floyd–Rivest sample to bracket the rank first gained nothing on
+    /// the 1,225 slopes of a 50-season station.)
     /// </remarks>
     internal static double OrderStatistic(ReadOnlySpan<double> values, int rank, Span<double> work, Span<double> spare)
     {
         ArgumentOutOfRangeException.ThrowIfNegative(rank);
         ArgumentOutOfRangeException.ThrowIfGreaterThanOrEqual(rank, values.Length);
+        ArgumentOutOfRangeException.ThrowIfLessThan(work.Length, values.Length);
+        ArgumentOutOfRangeException.ThrowIfLessThan(spare.Length, values.Length);
         var from = work[..values.Length];
         var to = spare[..values.Length];
         values.CopyTo(from);
@@ -155,13 +160,19 @@ internal static class Trend
 
             var pivot = MedianOfThree(from[lo], from[lo + (n / 2)], from[hi - 1]);
             int less = lo, greater = hi;
+
+            // lo ≤ less ≤ greater − 1 < hi before every store: at most i − lo values have moved an end.
+            ref var source = ref MemoryMarshal.GetReference(from);
+            ref var target = ref MemoryMarshal.GetReference(to);
             for (var i = lo; i < hi; i++)
             {
-                var x = from[i];
-                to[less] = x;
-                to[greater - 1] = x;
-                less += x < pivot ? 1 : 0;
-                greater -= x > pivot ? 1 : 0;
+                var x = Unsafe.Add(ref source, i);
+                Unsafe.Add(ref target, less) = x;
+                Unsafe.Add(ref target, greater - 1) = x;
+                var isLess = x < pivot;
+                var isGreater = x > pivot;
+                less += Unsafe.As<bool, byte>(ref isLess);
+                greater -= Unsafe.As<bool, byte>(ref isGreater);
             }
 
             if (rank < less)
