@@ -238,7 +238,7 @@ public static class SeasonMatrixFile
         ShareStationIds(keys, groupStart);
         try
         {
-            return new SeasonMatrix(calendar, keys, depths);
+            return SeasonMatrix.TakingKeys(calendar, keys, depths);
         }
         catch (ArgumentException e)
         {
