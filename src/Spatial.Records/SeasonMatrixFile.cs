@@ -209,26 +209,21 @@ public static class SeasonMatrixFile
             }
         }
 
+        // Worker 0 reads through the reader already open; the others open their own.
         var workers = Math.Clamp(Environment.ProcessorCount, 1, Math.Max(1, reader.RowGroupCount));
-        if (workers == 1)
+        var tasks = new Task[workers];
+        for (var w = 1; w < workers; w++)
         {
-            await ReadGroups(reader, 0, 1).ConfigureAwait(false);
-        }
-        else
-        {
-            var tasks = new Task[workers];
-            for (var w = 0; w < workers; w++)
+            var first = w;
+            tasks[w] = Task.Run(async () =>
             {
-                var first = w;
-                tasks[w] = Task.Run(async () =>
-                {
-                    await using var own = await ParquetReader.CreateAsync(path).ConfigureAwait(false);
-                    await ReadGroups(own, first, workers).ConfigureAwait(false);
-                });
-            }
-
-            await Task.WhenAll(tasks).ConfigureAwait(false);
+                await using var own = await ParquetReader.CreateAsync(path).ConfigureAwait(false);
+                await ReadGroups(own, first, workers).ConfigureAwait(false);
+            });
         }
+
+        tasks[0] = Task.Run(() => ReadGroups(reader, 0, workers));
+        await Task.WhenAll(tasks).ConfigureAwait(false);
 
         foreach (var failure in failures)
         {
