@@ -125,10 +125,11 @@ internal static class Statistics
     /// r1 the lag-1 autocorrelation of consecutive seasons within stations about each station's mean, clipped to [0, 0.95].
     /// N* is clipped to [2, N].
     /// </summary>
-    public static double EffectiveSeasons(IReadOnlyList<Spatial.Core.SeasonKey> keys, int[] train, Func<int, double> value, out double icc, out double r1)
+    public static double EffectiveSeasons(IReadOnlyList<SeasonKey> keyList, int[] train, Func<int, double> value, out double icc, out double r1)
     {
         icc = 0;
         r1 = 0;
+        var keys = keyList as SeasonKey[] ?? [.. keyList];
         var values = LargeArrays.AllocateUninitialized<double>(train.Length);
         var valid = LargeArrays.AllocateUninitialized<int>(train.Length);
         var n = 0;
@@ -156,14 +157,35 @@ internal static class Statistics
 
         grand /= n;
 
-        // Groups by season year, in order of first appearance, rows in order within each (as a GroupBy would give).
+        // Groups by season year, in order of first appearance, rows in order within each (as a GroupBy would give);
+        // group numbers looked up in an array over the years seen, or a dictionary when they span too much.
+        int first = int.MaxValue, last = int.MinValue;
+        for (var t = 0; t < n; t++)
+        {
+            first = Math.Min(first, keys[valid[t]].Season);
+            last = Math.Max(last, keys[valid[t]].Season);
+        }
+
+        var byYear = (long)last - first < 1 << 20 ? new int[last - first + 1] : null;
+        var groupIds = byYear is null ? new Dictionary<int, int>() : null;
         var groupOf = LargeArrays.AllocateUninitialized<int>(n);
-        var groupIds = new Dictionary<int, int>();
         var sizes = new List<int>();
         for (var t = 0; t < n; t++)
         {
             var season = keys[valid[t]].Season;
-            if (!groupIds.TryGetValue(season, out var id))
+            int id;
+            if (byYear is not null)
+            {
+                // Stored as group number + 1 (0 = not seen yet).
+                id = byYear[season - first] - 1;
+                if (id < 0)
+                {
+                    id = sizes.Count;
+                    byYear[season - first] = id + 1;
+                    sizes.Add(0);
+                }
+            }
+            else if (!groupIds!.TryGetValue(season, out id))
             {
                 id = sizes.Count;
                 groupIds.Add(season, id);
