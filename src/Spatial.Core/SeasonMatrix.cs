@@ -1,3 +1,6 @@
+using System.Numerics;
+using System.Runtime.Intrinsics;
+
 namespace Spatial.Core;
 
 /// <summary>One row of a <see cref="SeasonMatrix"/>: a station's season.</summary>
@@ -26,16 +29,22 @@ public sealed class SeasonMatrix
     /// or an observed-day count does not match the data.
     /// </summary>
     public SeasonMatrix(SeasonCalendar calendar, IReadOnlyList<SeasonKey> keys, float[] depthsMm)
+        : this(depthsMm, CopyOf(calendar, keys, depthsMm), calendar)
+    {
+    }
+
+    /// <summary>Validates as the public constructor and takes <paramref name="keys"/> as they are (the caller gives the array up).</summary>
+    private SeasonMatrix(float[] depthsMm, SeasonKey[] keys, SeasonCalendar calendar)
     {
         ArgumentNullException.ThrowIfNull(calendar);
         ArgumentNullException.ThrowIfNull(keys);
         ArgumentNullException.ThrowIfNull(depthsMm);
-        if ((long)keys.Count * SeasonCalendar.DaysPerSeason != depthsMm.LongLength)
+        if ((long)keys.Length * SeasonCalendar.DaysPerSeason != depthsMm.LongLength)
         {
-            throw new ArgumentException($"{keys.Count} rows need {(long)keys.Count * SeasonCalendar.DaysPerSeason} values; got {depthsMm.LongLength}.", nameof(depthsMm));
+            throw new ArgumentException($"{keys.Length} rows need {(long)keys.Length * SeasonCalendar.DaysPerSeason} values; got {depthsMm.LongLength}.", nameof(depthsMm));
         }
 
-        for (var i = 0; i < keys.Count; i++)
+        for (var i = 0; i < keys.Length; i++)
         {
             if (i > 0)
             {
@@ -46,16 +55,7 @@ public sealed class SeasonMatrix
                 }
             }
 
-            var observed = 0;
-            var row = depthsMm.AsSpan(i * SeasonCalendar.DaysPerSeason, SeasonCalendar.DaysPerSeason);
-            foreach (var v in row)
-            {
-                if (!float.IsNaN(v))
-                {
-                    observed++;
-                }
-            }
-
+            var observed = CountObserved(depthsMm.AsSpan(i * SeasonCalendar.DaysPerSeason, SeasonCalendar.DaysPerSeason));
             if (observed != keys[i].ObservedDays)
             {
                 throw new ArgumentException($"row {i} ({keys[i].Station} {keys[i].Season}) says {keys[i].ObservedDays} observed days; the data hold {observed}.", nameof(keys));
@@ -63,7 +63,7 @@ public sealed class SeasonMatrix
         }
 
         Calendar = calendar;
-        Keys = keys.ToArray();
+        Keys = keys;
         this.depthsMm = depthsMm;
     }
 
@@ -81,6 +81,39 @@ public sealed class SeasonMatrix
 
     /// <summary>All depths as memory (for parallel loops), row-major, millimetres, NaN for missing.</summary>
     public ReadOnlyMemory<float> DepthsMemory => depthsMm;
+
+    /// <summary>As the public constructor, without copying <paramref name="keys"/>: the matrix takes the array (a reader that built it).</summary>
+    internal static SeasonMatrix TakingKeys(SeasonCalendar calendar, SeasonKey[] keys, float[] depthsMm) => new(depthsMm, keys, calendar);
+
+    private static SeasonKey[] CopyOf(SeasonCalendar calendar, IReadOnlyList<SeasonKey> keys, float[] depthsMm)
+    {
+        ArgumentNullException.ThrowIfNull(calendar);
+        ArgumentNullException.ThrowIfNull(keys);
+        ArgumentNullException.ThrowIfNull(depthsMm);
+        return keys.ToArray();
+    }
+
+    /// <summary>Values of <paramref name="row"/> that are not NaN, eight at a time.</summary>
+    private static int CountObserved(ReadOnlySpan<float> row)
+    {
+        var observed = 0;
+        var i = 0;
+        if (Vector256.IsHardwareAccelerated)
+        {
+            for (; i + 8 <= row.Length; i += 8)
+            {
+                var v = Vector256.Create(row.Slice(i, 8));
+                observed += BitOperations.PopCount(Vector256.Equals(v, v).ExtractMostSignificantBits());
+            }
+        }
+
+        for (; i < row.Length; i++)
+        {
+            observed += float.IsNaN(row[i]) ? 0 : 1;
+        }
+
+        return observed;
+    }
 
     /// <summary>The 365 depths of row <paramref name="row"/>, millimetres, NaN for missing.</summary>
     public ReadOnlySpan<float> Row(int row) => depthsMm.AsSpan(checked(row * SeasonCalendar.DaysPerSeason), SeasonCalendar.DaysPerSeason);

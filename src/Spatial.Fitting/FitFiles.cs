@@ -41,93 +41,107 @@ public static class FitFiles
     private static void WriteSeasons(string path, SeasonScores s, ApplyResult? apply)
     {
         var k = s.K;
-        AtomicFile.WriteText(path, w =>
+        var header = new List<string> { "station", "season", "observed_days" };
+        header.AddRange(Enumerable.Range(1, k).Select(c => Inv($"c{c}")));
+        header.AddRange(Enumerable.Range(0, k + 1).Select(c => Inv($"residual_{c}")));
+        header.AddRange(SeasonMetrics.Names);
+        header.Add("below_min_days");
+        header.Add("modelled_bare_days");
+        if (apply is not null)
         {
-            var header = new List<string> { "station", "season", "observed_days" };
-            header.AddRange(Enumerable.Range(1, k).Select(c => Inv($"c{c}")));
-            header.AddRange(Enumerable.Range(0, k + 1).Select(c => Inv($"residual_{c}")));
-            header.AddRange(SeasonMetrics.Names);
-            header.Add("below_min_days");
-            header.Add("modelled_bare_days");
-            if (apply is not null)
-            {
-                header.AddRange(Enumerable.Range(1, k).Select(c => Inv($"z_c{c}")));
-                header.AddRange(Enumerable.Range(1, k).Select(c => Inv($"percentile_c{c}")));
-            }
+            header.AddRange(Enumerable.Range(1, k).Select(c => Inv($"z_c{c}")));
+            header.AddRange(Enumerable.Range(1, k).Select(c => Inv($"percentile_c{c}")));
+        }
 
-            w.Write(string.Join(',', header));
-            w.Write('\n');
-            var sb = new StringBuilder(512);
-            for (var r = 0; r < s.Count; r++)
+        AtomicFile.Write(path, stream =>
+        {
+            stream.Write(Encoding.UTF8.GetBytes(string.Join(',', header) + "\n"));
+            Utf8Csv.WriteRows(stream, s.Count, (r, line) =>
             {
-                sb.Clear();
                 var key = s.Keys[r];
-                sb.Append(Csv(key.Station.Value)).Append(',');
-                sb.Append(key.Season.ToString(CultureInfo.InvariantCulture)).Append(',');
-                sb.Append(key.ObservedDays.ToString(CultureInfo.InvariantCulture));
+                line.Text(key.Station.Value);
+                line.Char(',');
+                line.Int(key.Season);
+                line.Char(',');
+                line.Int(key.ObservedDays);
                 for (var c = 0; c < k; c++)
                 {
-                    sb.Append(',').Append(Num(s.Coefficient(r, c)));
+                    line.Char(',');
+                    line.Number(s.Coefficient(r, c));
                 }
 
                 for (var c = 0; c <= k; c++)
                 {
-                    sb.Append(',').Append(Num(s.Residual(r, c)));
+                    line.Char(',');
+                    line.Number(s.Residual(r, c));
                 }
 
-                var m = s.Metrics(r);
-                for (var i = 0; i < SeasonMetrics.Names.Count; i++)
+                for (var i = 0; i < SeasonMetrics.Count; i++)
                 {
-                    sb.Append(',').Append(Num(m[i]));
+                    line.Char(',');
+                    line.Number(s.Metric(r, i));
                 }
 
-                sb.Append(',').Append(key.BelowMinDays ? "true" : "false");
-                sb.Append(',').Append(m.ModelledBareDays.ToString(CultureInfo.InvariantCulture));
+                line.Char(',');
+                line.Ascii(key.BelowMinDays ? "true"u8 : "false"u8);
+                line.Char(',');
+                line.Int(s.ModelledBareDays(r));
                 if (apply is not null)
                 {
                     for (var c = 0; c < k; c++)
                     {
-                        sb.Append(',').Append(Num(apply.ZScores[(r * k) + c]));
+                        line.Char(',');
+                        line.Number(apply.ZScores[(r * k) + c]);
                     }
 
                     for (var c = 0; c < k; c++)
                     {
-                        sb.Append(',').Append(Num(apply.Percentiles[(r * k) + c]));
+                        line.Char(',');
+                        line.Number(apply.Percentiles[(r * k) + c]);
                     }
                 }
 
-                sb.Append('\n');
-                w.Write(sb);
-            }
+                line.Char('\n');
+            });
         });
     }
 
     private static void WriteStations(string path, StationSummary[] stations, int k)
     {
         var names = StationSummaries.Names(k);
-        AtomicFile.WriteText(path, w =>
+        var header = new List<string> { "station", "seasons" };
+        foreach (var n in names)
         {
-            var header = new List<string> { "station", "seasons" };
-            foreach (var n in names)
-            {
-                header.AddRange([$"median_{n}", $"iqr_{n}", $"mk_s_{n}", $"mk_z_{n}", $"mk_p_{n}", $"sen_per_decade_{n}"]);
-            }
+            header.AddRange([$"median_{n}", $"iqr_{n}", $"mk_s_{n}", $"mk_z_{n}", $"mk_p_{n}", $"sen_per_decade_{n}"]);
+        }
 
-            w.Write(string.Join(',', header));
-            w.Write('\n');
-            foreach (var st in stations)
+        AtomicFile.Write(path, stream =>
+        {
+            stream.Write(Encoding.UTF8.GetBytes(string.Join(',', header) + "\n"));
+            Utf8Csv.WriteRows(stream, stations.Length, (r, line) =>
             {
-                var sb = new StringBuilder();
-                sb.Append(Csv(st.Station.Value)).Append(',').Append(st.Seasons.ToString(CultureInfo.InvariantCulture));
+                var st = stations[r];
+                line.Text(st.Station.Value);
+                line.Char(',');
+                line.Int(st.Seasons);
                 foreach (var q in st.Statistics)
                 {
-                    sb.Append(',').Append(Num(q.Median)).Append(',').Append(Num(q.Iqr)).Append(',').Append(Num(q.MkS))
-                        .Append(',').Append(Num(q.MkZ)).Append(',').Append(Num(q.MkP)).Append(',').Append(Num(q.SenPerDecade));
+                    line.Char(',');
+                    line.Number(q.Median);
+                    line.Char(',');
+                    line.Number(q.Iqr);
+                    line.Char(',');
+                    line.Number(q.MkS);
+                    line.Char(',');
+                    line.Number(q.MkZ);
+                    line.Char(',');
+                    line.Number(q.MkP);
+                    line.Char(',');
+                    line.Number(q.SenPerDecade);
                 }
 
-                sb.Append('\n');
-                w.Write(sb);
-            }
+                line.Char('\n');
+            });
         });
     }
 
@@ -249,10 +263,5 @@ public static class FitFiles
         w.WriteEndArray();
     }
 
-    private static string Num(double v) => double.IsFinite(v) ? v.ToString("R", CultureInfo.InvariantCulture) : string.Empty;
-
     private static string Inv(FormattableString s) => FormattableString.Invariant(s);
-
-    private static string Csv(string s) =>
-        s.AsSpan().IndexOfAny(",\"\n\r") >= 0 ? "\"" + s.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"" : s;
 }

@@ -67,15 +67,23 @@ public sealed class SeasonScores
 {
     private readonly double[] coefficients;
     private readonly double[] residuals;
-    private readonly SeasonMetrics[] metrics;
+    private readonly double[] metricValues;
+    private readonly int[] modelledBareDays;
 
-    internal SeasonScores(IReadOnlyList<SeasonKey> keys, int k, double[] coefficients, double[] residuals, SeasonMetrics[] metrics)
+    /// <param name="keys">Row keys.</param>
+    /// <param name="k">Number of components.</param>
+    /// <param name="coefficients">[row × K].</param>
+    /// <param name="residuals">[row × (K + 1)].</param>
+    /// <param name="metricValues">[row × metrics], in the order of <see cref="SeasonMetrics.Names"/>.</param>
+    /// <param name="modelledBareDays">[row].</param>
+    internal SeasonScores(IReadOnlyList<SeasonKey> keys, int k, double[] coefficients, double[] residuals, double[] metricValues, int[] modelledBareDays)
     {
         Keys = keys;
         K = k;
         this.coefficients = coefficients;
         this.residuals = residuals;
-        this.metrics = metrics;
+        this.metricValues = metricValues;
+        this.modelledBareDays = modelledBareDays;
     }
 
     /// <summary>Row keys (station, season, observed days, below-minimum flag).</summary>
@@ -94,7 +102,17 @@ public sealed class SeasonScores
     public double Residual(int row, int k) => residuals[(row * (K + 1)) + k];
 
     /// <summary>Metrics of row <paramref name="row"/>.</summary>
-    public SeasonMetrics Metrics(int row) => metrics[row];
+    public SeasonMetrics Metrics(int row)
+    {
+        var m = metricValues.AsSpan(row * SeasonMetrics.Count, SeasonMetrics.Count);
+        return new SeasonMetrics(m[0], m[1], m[2], m[3], m[4], m[5], m[6]) { ModelledBareDays = modelledBareDays[row] };
+    }
+
+    /// <summary>Metric number <paramref name="metric"/> (order of <see cref="SeasonMetrics.Names"/>) of row <paramref name="row"/>.</summary>
+    internal double Metric(int row, int metric) => metricValues[(row * SeasonMetrics.Count) + metric];
+
+    /// <summary>Modelled-bare days of row <paramref name="row"/> (<see cref="SeasonMetrics.ModelledBareDays"/>).</summary>
+    internal int ModelledBareDays(int row) => modelledBareDays[row];
 
     internal ReadOnlySpan<double> CoefficientRow(int row) => coefficients.AsSpan(row * K, K);
 

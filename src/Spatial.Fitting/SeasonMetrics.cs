@@ -38,11 +38,26 @@ public readonly record struct SeasonMetrics(
     public static IReadOnlyList<string> Names { get; } =
         ["onset_day", "meltout_day", "longest_cover_days", "snow_days", "peak_depth_mm", "peak_day", "centroid_day"];
 
+    /// <summary>Number of metrics (<see cref="Names"/>).</summary>
+    internal const int Count = 7;
+
     /// <summary>All metrics unknown.</summary>
     public static SeasonMetrics Unknown { get; } = new(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
 
     /// <summary>The metrics in the order of <see cref="Names"/>.</summary>
     public double[] ToArray() => [OnsetDay, MeltoutDay, LongestCoverDays, SnowDays, PeakDepthMm, PeakDay, CentroidDay];
+
+    /// <summary>Writes the metrics in the order of <see cref="Names"/> into <paramref name="destination"/>.</summary>
+    internal void CopyTo(Span<double> destination)
+    {
+        destination[6] = CentroidDay;
+        destination[0] = OnsetDay;
+        destination[1] = MeltoutDay;
+        destination[2] = LongestCoverDays;
+        destination[3] = SnowDays;
+        destination[4] = PeakDepthMm;
+        destination[5] = PeakDay;
+    }
 
     /// <summary>Metric number <paramref name="index"/> in the order of <see cref="Names"/>.</summary>
     public double this[int index] => index switch

@@ -66,7 +66,7 @@ public static class SeasonalFit
         ArgumentOutOfRangeException.ThrowIfLessThan(options.RefineTolerance, MinRefineTolerance);
         var k = options.Components;
         var po = Layout.Parallel(options.MaxThreads);
-        var train = Enumerable.Range(0, matrix.Rows).Where(r => !matrix.Keys[r].BelowMinDays && matrix.Keys[r].ObservedDays > 0 && matrix.Keys[r].ObservedDays >= options.MinObservedDays).ToArray();
+        var train = TrainingRows(matrix, options.MinObservedDays);
         if (train.Length < 2)
         {
             throw new SpatialDataException("season matrix", 0, $"{train.Length} season(s) have enough observed days to estimate a basis; at least 2 are needed", "lower the minimum observed days or add seasons");
@@ -125,7 +125,7 @@ public static class SeasonalFit
         StageTimer.Lap(sw, "projection and metrics");
         var correlations = Correlations(scores, train, k, po);
         StageTimer.Lap(sw, "correlations");
-        var partials = Interpreter.PartialCorrelations(scores.Coefficient, (r, m) => scores.Metrics(r)[m], k, SeasonMetrics.Names.Count, train);
+        var partials = PartialCorrelations(scores, train, k, po);
         StageTimer.Lap(sw, "partial correlations");
         var labels = Interpreter.Label(components, partials, options.LabelMinCorrelation);
         for (var c = 0; c < k; c++)
@@ -171,7 +171,27 @@ public static class SeasonalFit
         }
 
         var training = new TrainingDistribution[k];
-        Parallel.For(0, k, po, c => training[c] = Distribution(train.Select(r => scores.Coefficient(r, c))));
+        Parallel.For(
+            0,
+            k,
+            po,
+            () => (Values: LargeArrays.AllocateUninitialized<double>(train.Length), Scratch: LargeArrays.AllocateUninitialized<double>(train.Length)),
+            (c, _, buffers) =>
+            {
+                var n = 0;
+                foreach (var r in train)
+                {
+                    var v = scores.Coefficient(r, c);
+                    if (double.IsFinite(v))
+                    {
+                        buffers.Values[n++] = v;
+                    }
+                }
+
+                training[c] = Distribution(buffers.Values.AsSpan(0, n), buffers.Scratch);
+                return buffers;
+            },
+            _ => { });
         StageTimer.Lap(sw, "training distribution");
         var provenance = new SortedDictionary<string, string>(StringComparer.Ordinal)
         {
@@ -449,7 +469,41 @@ public static class SeasonalFit
         return relative * Math.Max(1, rate / (1 - rate)) < tolerance;
     }
 
+    /// <summary>Rows not flagged below the minimum, with observed days, and at least <paramref name="minObservedDays"/> of them, in row order.</summary>
+    private static int[] TrainingRows(SeasonMatrix matrix, int minObservedDays)
+    {
+        var keys = matrix.Keys;
+        var count = 0;
+        for (var r = 0; r < matrix.Rows; r++)
+        {
+            count += IsTraining(keys[r]) ? 1 : 0;
+        }
+
+        var train = new int[count];
+        var t = 0;
+        for (var r = 0; r < matrix.Rows; r++)
+        {
+            if (IsTraining(keys[r]))
+            {
+                train[t++] = r;
+            }
+        }
+
+        return train;
+
+        bool IsTraining(SeasonKey key) => !key.BelowMinDays && key.ObservedDays > 0 && key.ObservedDays >= minObservedDays;
+    }
+
     private static double[][] Correlations(SeasonScores scores, int[] train, int k, ParallelOptions po)
+    {
+        // Each (component, metric) pair is summed alone, in row order: the same numbers whatever the thread count.
+        var result = new double[k][];
+        Parallel.For(0, k, po, c => result[c] = Statistics.PearsonWithMetrics(scores, c, train));
+        return result;
+    }
+
+    /// <summary>The interpreter's sequential partial correlations, one metric per task (each metric is computed alone there too).</summary>
+    private static double[][] PartialCorrelations(SeasonScores scores, int[] train, int k, ParallelOptions po)
     {
         var metrics = SeasonMetrics.Names.Count;
         var result = new double[k][];
@@ -458,25 +512,27 @@ public static class SeasonalFit
             result[c] = new double[metrics];
         }
 
-        // Each (component, metric) pair is summed alone, in row order: the same numbers whatever the thread count.
-        Parallel.For(0, k * metrics, po, pair =>
+        Parallel.For(0, metrics, po, m =>
         {
-            var c = pair / metrics;
-            var m = pair % metrics;
-            result[c][m] = Statistics.Pearson(r => scores.Coefficient(r, c), r => scores.Metrics(r)[m], train);
+            var one = Interpreter.PartialCorrelations(scores.Coefficient, (r, _) => scores.Metric(r, m), k, 1, train);
+            for (var c = 0; c < k; c++)
+            {
+                result[c][m] = one[c][0];
+            }
         });
         return result;
     }
 
-    private static TrainingDistribution Distribution(IEnumerable<double> values)
+    /// <summary>Mean, sd and quantiles of finite <paramref name="values"/> (reordered: sorted ascending in place); <paramref name="scratch"/> at least as long.</summary>
+    private static TrainingDistribution Distribution(Span<double> values, Span<double> scratch)
     {
-        var sorted = values.Where(double.IsFinite).ToArray();
-        Array.Sort(sorted);
-        if (sorted.Length == 0)
+        if (values.Length == 0)
         {
             return new TrainingDistribution(double.NaN, double.NaN, []);
         }
 
+        RadixSort.Sort(values, scratch);
+        ReadOnlySpan<double> sorted = values;
         var mean = 0.0;
         foreach (var v in sorted)
         {

@@ -20,8 +20,6 @@ public sealed class FitPartsBenchmark : IBenchmark
         var scratch = new double[projector.ScratchLength];
         var c = new double[4];
         var res = new double[5];
-        var state = new byte[365];
-        var bridged = new bool[365];
         double Cpu(Action a)
         {
             var t0 = Process.GetCurrentProcess().TotalProcessorTime;
@@ -54,7 +52,7 @@ public sealed class FitPartsBenchmark : IBenchmark
         {
             for (var r = 0; r < rows; r++)
             {
-                _ = MetricCalculator.Compute(matrix.Row(r), MetricOptions.Default, state, bridged);
+                _ = MetricCalculator.Compute(matrix.Row(r), MetricOptions.Default);
             }
         }), "µs/season");
         report.Figure("Scoring.Score, one thread (projection + metrics)", Cpu(() => Scoring.Score(matrix, projector, MetricOptions.Default, Layout.Parallel(1), null)), "µs/season");

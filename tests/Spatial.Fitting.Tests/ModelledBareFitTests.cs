@@ -29,7 +29,7 @@ public sealed class ModelledBareFitTests
         for (var r = 0; r < full.Rows; r += 3)
         {
             // Reference: the same season with its summer, strict rule (no model).
-            var reference = MetricCalculator.Compute(full.Row(r), MetricOptions.Default, new byte[365], new bool[365]);
+            var reference = MetricCalculator.Compute(full.Row(r), MetricOptions.Default);
             if (double.IsNaN(reference.MeltoutDay) || double.IsNaN(reference.SnowDays) || reference.MeltoutDay >= 300)
             {
                 continue;

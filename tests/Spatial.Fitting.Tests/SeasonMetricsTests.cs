@@ -7,7 +7,7 @@ namespace Spatial.Fitting.Tests;
 public sealed class SeasonMetricsTests
 {
     private static SeasonMetrics Metrics(float[] curve, MetricOptions? options = null) =>
-        MetricCalculator.Compute(curve, options ?? MetricOptions.Default, new byte[365], new bool[365]);
+        MetricCalculator.Compute(curve, options ?? MetricOptions.Default);
 
     /// <summary>Zero depth, with snow of <paramref name="depth"/> mm on days [from, to].</summary>
     private static float[] Block(int from, int to, float depth = 100f)
@@ -119,7 +119,7 @@ public sealed class SeasonMetricsTests
 
     /// <summary>Metrics with a model whose reconstruction is <paramref name="reconstruction"/> (K = 1, coefficient 0, so the reconstruction is the mean).</summary>
     private static SeasonMetrics Modelled(float[] curve, double[] reconstruction) =>
-        MetricCalculator.Compute(curve, MetricOptions.Default, new byte[365], new bool[365], reconstruction, new double[365], [0.0]);
+        MetricCalculator.Compute(curve, MetricOptions.Default, reconstruction, new double[365], [0.0]);
 
     private static double[] Flat(double mm) => Enumerable.Repeat(mm, 365).ToArray();
 
@@ -286,9 +286,9 @@ public sealed class SeasonMetricsTests
             v[d] = 1;
         }
 
-        var below = MetricCalculator.Compute(NoSummer(), MetricOptions.Default, new byte[365], new bool[365], new double[365], v, [20.0]);
-        var above = MetricCalculator.Compute(NoSummer(), MetricOptions.Default, new byte[365], new bool[365], new double[365], v, [30.0]);
-        var noFit = MetricCalculator.Compute(NoSummer(), MetricOptions.Default, new byte[365], new bool[365], new double[365], v, [double.NaN]);
+        var below = MetricCalculator.Compute(NoSummer(), MetricOptions.Default, new double[365], v, [20.0]);
+        var above = MetricCalculator.Compute(NoSummer(), MetricOptions.Default, new double[365], v, [30.0]);
+        var noFit = MetricCalculator.Compute(NoSummer(), MetricOptions.Default, new double[365], v, [double.NaN]);
         Assert.Equal(199, below.MeltoutDay);
         Assert.True(double.IsNaN(above.MeltoutDay));
         Assert.True(double.IsNaN(noFit.MeltoutDay)); // no coefficients (singular projection): no model

@@ -50,6 +50,63 @@ public sealed class SeasonMatrixFileTests : IDisposable
     }
 
     [Fact]
+    public void A_matrix_in_many_row_groups_reads_back_bit_for_bit_and_a_station_across_groups_keeps_one_id_instance()
+    {
+        // Given 9 stations × 7 seasons in row groups of 19 rows (groups are read in parallel, days in blocks of 8 rows × 8 days and a remainder)
+        var matrix = Sample(9, 7, seed: 23);
+        var path = Path.Combine(folder, "groups.parquet");
+        SeasonMatrixFile.Write(path, matrix, rowGroupRows: 19);
+
+        // When read back
+        var back = SeasonMatrixFile.Read(path);
+
+        // Then every key and depth is the same, and rows 18 and 19 (one station, two groups) share the id's string
+        AssertSame(matrix, back);
+        Assert.Same(back.Keys[18].Station.Value, back.Keys[19].Station.Value);
+    }
+
+    [Fact]
+    public async Task A_day_column_as_written_here_is_one_plain_page_whose_values_are_copied_as_they_lie()
+    {
+        // Given a matrix written by this class (one uncompressed PLAIN data page per column chunk)
+        var matrix = Sample(3, 4, seed: 31);
+        var path = Path.Combine(folder, "plain.parquet");
+        SeasonMatrixFile.Write(path, matrix);
+        await using var reader = await ParquetReader.CreateAsync(path);
+        using var group = reader.OpenRowGroupReader(0);
+        using var file = File.OpenHandle(path);
+        var d100 = reader.Schema.DataFields[4 + 100];
+
+        // When day 100 is read straight from the file
+        var values = new float[matrix.Rows];
+        var direct = PlainFloatPages.TryRead(file, group, d100, values);
+
+        // Then it is taken, bit for bit; a chunk that does not hold as many values as asked is left to Parquet.Net
+        Assert.True(direct);
+        for (var r = 0; r < matrix.Rows; r++)
+        {
+            Assert.Equal(BitConverter.SingleToInt32Bits(matrix.Row(r)[100]), BitConverter.SingleToInt32Bits(values[r]));
+        }
+
+        Assert.False(PlainFloatPages.TryRead(file, group, d100, new float[matrix.Rows - 1]));
+    }
+
+    [Fact]
+    public void A_page_header_that_is_not_one_plain_data_page_of_the_expected_values_is_refused()
+    {
+        // Thrift compact PageHeader (parquet.thrift): type 0 (DATA_PAGE), sizes 8 and 8, data_page_header {num_values 2, encoding 0 (PLAIN)}.
+        byte[] plain = [0x15, 0x00, 0x15, 0x10, 0x15, 0x10, 0x2C, 0x15, 0x04, 0x15, 0x00, 0x00, 0x00];
+        Assert.True(PlainFloatPages.IsPlainDataPage(plain, 2, out var length));
+        Assert.Equal(plain.Length, length);
+
+        // The same with 3 values declared, with RLE_DICTIONARY (8) as encoding, and cut short.
+        Assert.False(PlainFloatPages.IsPlainDataPage(plain, 3, out _));
+        byte[] dictionary = [0x15, 0x00, 0x15, 0x10, 0x15, 0x10, 0x2C, 0x15, 0x04, 0x15, 0x10, 0x00, 0x00];
+        Assert.False(PlainFloatPages.IsPlainDataPage(dictionary, 2, out _));
+        Assert.False(PlainFloatPages.IsPlainDataPage(plain.AsSpan(0, 9), 2, out _));
+    }
+
+    [Fact]
     public void A_written_matrix_reads_back_bit_for_bit_with_its_keys_and_calendar()
     {
         var matrix = Sample(7, 5, seed: 11, calendar: new SeasonCalendar(3, 1));

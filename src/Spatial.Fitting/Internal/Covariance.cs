@@ -181,8 +181,6 @@ internal static class Covariance
         const int p = Layout.PaddedDays;
         const int br = Layout.BlockRows;
         var chunks = Layout.Chunks(train.Length);
-        var chunkSums = new double[chunks.Length][];
-        var chunkCounts = new int[chunks.Length][];
         var memory = matrix.DepthsMemory;
         var usable = new bool[d];
         for (var j = 0; j < d; j++)
@@ -198,86 +196,108 @@ internal static class Covariance
             usableBits[j] = usable[j] ? uint.MaxValue : 0;
         }
 
+        // Chunks are taken in increasing order by the workers and added into the total in chunk order as soon as all
+        // earlier ones are in (the same sums, in the same order, as adding every chunk at the end); a chunk's
+        // accumulators go back to a pool once added, so only a few exist at a time.
+        var s = new double[p * p];
+        var n = fill is null ? new int[p * p] : [];
+        var pool = new Stack<(double[] Sums, int[] Counts)>();
+        var finished = new (double[] Sums, int[] Counts)?[chunks.Length];
+        var nextToAdd = 0;
+        var nextChunk = -1;
         long done = 0;
-        Parallel.For(0, chunks.Length, po, c =>
+        var workers = Math.Min(chunks.Length, po.MaxDegreeOfParallelism > 0 ? po.MaxDegreeOfParallelism : Environment.ProcessorCount);
+        Parallel.For(0, workers, po, _ =>
         {
             var block = new float[br * p];
             var masks = new ulong[d * CovarianceKernel.MaskWords];
-            var sums = new double[p * p];
-            var counts = fill is null ? new int[p * p] : null;
             var span = memory.Span;
-            var inBlock = 0;
-            for (var t = chunks[c].Start; t < chunks[c].End; t++)
+            int c;
+            while ((c = Interlocked.Increment(ref nextChunk)) < chunks.Length)
             {
-                var row = span.Slice(train[t] * d, d);
-                var dst = block.AsSpan(inBlock * p, p);
-                var word = inBlock >> 6;
-                var bitIndex = inBlock & 63;
-                if (fill is null)
+                (double[] Sums, int[] Counts) acc;
+                lock (pool)
                 {
-                    FillPairwise(row, dst, masks, word, bitIndex, meanD, usableBits);
+                    acc = pool.Count > 0 ? pool.Pop() : (new double[p * p], fill is null ? new int[p * p] : []);
                 }
-                else
+
+                var sums = acc.Sums;
+                var counts = fill is null ? acc.Counts : null;
+                var inBlock = 0;
+                for (var t = chunks[c].Start; t < chunks[c].End; t++)
                 {
-                    var bit = 1UL << bitIndex;
-                    for (var j = 0; j < d; j++)
+                    var row = span.Slice(train[t] * d, d);
+                    var dst = block.AsSpan(inBlock * p, p);
+                    var word = inBlock >> 6;
+                    var bitIndex = inBlock & 63;
+                    if (fill is null)
                     {
-                        var x = row[j];
-                        if (!usable[j])
+                        FillPairwise(row, dst, masks, word, bitIndex, meanD, usableBits);
+                    }
+                    else
+                    {
+                        var bit = 1UL << bitIndex;
+                        for (var j = 0; j < d; j++)
                         {
-                            dst[j] = 0f;
+                            var x = row[j];
+                            if (!usable[j])
+                            {
+                                dst[j] = 0f;
+                            }
+                            else if (!float.IsNaN(x))
+                            {
+                                dst[j] = (float)(x - mean[j]);
+                                masks[(j * CovarianceKernel.MaskWords) + word] |= bit;
+                            }
+                            else
+                            {
+                                dst[j] = (float)(fill.Value(t, j) - mean[j]);
+                            }
                         }
-                        else if (!float.IsNaN(x))
+                    }
+
+                    inBlock++;
+                    if (inBlock == br || t == chunks[c].End - 1)
+                    {
+                        CovarianceKernel.AddProducts(block, inBlock, sums);
+                        if (counts is not null)
                         {
-                            dst[j] = (float)(x - mean[j]);
-                            masks[(j * CovarianceKernel.MaskWords) + word] |= bit;
+                            CovarianceKernel.AddPairCounts(masks, counts);
                         }
-                        else
-                        {
-                            dst[j] = (float)(fill.Value(t, j) - mean[j]);
-                        }
+
+                        Array.Clear(masks);
+                        var total = Interlocked.Add(ref done, inBlock);
+                        progress?.Invoke((double)total / train.Length);
+                        inBlock = 0;
                     }
                 }
 
-                inBlock++;
-                if (inBlock == br || t == chunks[c].End - 1)
+                lock (pool)
                 {
-                    CovarianceKernel.AddProducts(block, inBlock, sums);
-                    if (counts is not null)
+                    finished[c] = acc;
+                    while (nextToAdd < chunks.Length && finished[nextToAdd] is { } ready)
                     {
-                        CovarianceKernel.AddPairCounts(masks, counts);
-                    }
+                        for (var k = 0; k < s.Length; k++)
+                        {
+                            s[k] += ready.Sums[k];
+                        }
 
-                    Array.Clear(masks);
-                    var total = Interlocked.Add(ref done, inBlock);
-                    progress?.Invoke((double)total / train.Length);
-                    inBlock = 0;
+                        if (fill is null)
+                        {
+                            for (var k = 0; k < n.Length; k++)
+                            {
+                                n[k] += ready.Counts[k];
+                            }
+                        }
+
+                        Array.Clear(ready.Sums);
+                        Array.Clear(ready.Counts);
+                        pool.Push(ready);
+                        finished[nextToAdd++] = null;
+                    }
                 }
             }
-
-            chunkSums[c] = sums;
-            chunkCounts[c] = counts ?? [];
         });
-
-        var s = new double[p * p];
-        var n = fill is null ? new int[p * p] : [];
-        for (var c = 0; c < chunks.Length; c++)
-        {
-            var cs = chunkSums[c];
-            for (var k = 0; k < s.Length; k++)
-            {
-                s[k] += cs[k];
-            }
-
-            if (fill is null)
-            {
-                var cn = chunkCounts[c];
-                for (var k = 0; k < n.Length; k++)
-                {
-                    n[k] += cn[k];
-                }
-            }
-        }
 
         var cov = new double[d * d];
         pairCounts = new int[d * d];

@@ -1,4 +1,6 @@
+using System.Runtime.CompilerServices;
 using System.Runtime.Intrinsics;
+using System.Runtime.Intrinsics.X86;
 
 namespace Spatial.Fitting.Internal;
 
@@ -11,26 +13,31 @@ namespace Spatial.Fitting.Internal;
 /// Days whose mean is NaN (never observed in training) are ignored. The ridge α is <c>ridge × trace(G)/K</c>.
 /// A row without observed days, or whose normal equations are singular, gets NaN coefficients and residuals;
 /// a row equal to the mean on every observed day gets residuals NaN (0/0).
+/// Sums over days run in 4-wide double vectors over the days (padded to <see cref="Layout.PaddedDays"/>), lanes added
+/// at the end: the same numbers for a row whatever else runs.
 /// </remarks>
 internal sealed class GappyProjector
 {
+    private const int P = Layout.PaddedDays;
+
     private readonly double[] mean;
     private readonly double[] meanOrZero;
     private readonly double[] usable;
     private readonly double[] byDay;
-    private readonly double[] padded;
-    private readonly int kp;
+    private readonly double[] byComponent;
+    private readonly int kq;
 
     public GappyProjector(double[] mean, double[][] components, double ridge)
     {
         this.mean = mean;
         K = components.Length;
         Ridge = ridge;
-        kp = (K + 3) / 4 * 4;
+        kq = (K + 3) / 4 * 4;
         byDay = new double[Layout.Days * K];
-        padded = new double[Layout.Days * kp];
-        meanOrZero = new double[Layout.Days];
-        usable = new double[Layout.Days];
+        byComponent = new double[kq * P];
+        meanOrZero = new double[P];
+        usable = new double[P];
+        var allOnes = BitConverter.Int64BitsToDouble(-1L);
         for (var d = 0; d < Layout.Days; d++)
         {
             if (double.IsNaN(mean[d]))
@@ -39,11 +46,11 @@ internal sealed class GappyProjector
             }
 
             meanOrZero[d] = mean[d];
-            usable[d] = 1;
+            usable[d] = allOnes;
             for (var k = 0; k < K; k++)
             {
                 byDay[(d * K) + k] = components[k][d];
-                padded[(d * kp) + k] = components[k][d];
+                byComponent[(k * P) + d] = components[k][d];
             }
         }
     }
@@ -58,110 +65,65 @@ internal sealed class GappyProjector
     /// <summary>Components day-major [365 × K] (zero on unusable days).</summary>
     public double[] ComponentsByDay => byDay;
 
-    /// <summary>Scratch size in doubles for <see cref="Project"/>.</summary>
-    public int ScratchLength => (K * K) + K + (kp * kp) + kp + (2 * Layout.Days);
+    /// <summary>Scratch size in doubles for <see cref="Project(ReadOnlySpan{float}, Span{double}, Span{double}, Span{double})"/>.</summary>
+    public int ScratchLength => (K * K) + K + (2 * P) + (4 * (K + 1));
 
     /// <summary>Projects one row; writes K coefficients and K+1 residuals.</summary>
-    /// <remarks>
-    /// Branch-free over days: y_d = x_d − m_d and w_d = 1 on observed usable days, y_d = w_d = 0 otherwise; the normal
-    /// equations G = Σ w_d v_d v_dᵀ and b = Σ y_d v_d are summed with 4-wide double vectors over the padded components.
-    /// </remarks>
     public void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch) =>
-        Project(row, coefficients, residuals, scratch, out _);
+        Project(row, coefficients, residuals, scratch, out _, default);
 
     /// <summary>Projects one row as <see cref="Project(ReadOnlySpan{float}, Span{double}, Span{double}, Span{double})"/>, and gives the RMS misfit √(Σ_obs (x − m − Σ_k c_k v_k)² / n_obs), mm (NaN without coefficients).</summary>
-    public unsafe void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch, out double rmsMisfitMm)
+    public void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch, out double rmsMisfitMm) =>
+        Project(row, coefficients, residuals, scratch, out rmsMisfitMm, default);
+
+    /// <summary>
+    /// Projects one row; writes K coefficients, K+1 residuals, the RMS misfit (mm, NaN without coefficients) and, when
+    /// <paramref name="reconstruction"/> is not empty (at least 365 long), the season's reconstruction
+    /// m_d + Σ_k c_k v_kd (summed in component order) per day, +∞ on days whose mean is NaN; left as it was when the row
+    /// gets no coefficients.
+    /// </summary>
+    /// <remarks>
+    /// Branch-free over days: y_d = x_d − m_d on observed usable days and 0 otherwise, w_d the matching 0/1 mask; the normal
+    /// equations G = Σ w_d v_d v_dᵀ and b = Σ y_d v_d are summed over days in 4-wide vectors.
+    /// </remarks>
+    [SkipLocalsInit]
+    public unsafe void Project(ReadOnlySpan<float> row, Span<double> coefficients, Span<double> residuals, Span<double> scratch, out double rmsMisfitMm, Span<double> reconstruction)
     {
+        ArgumentOutOfRangeException.ThrowIfLessThan(row.Length, Layout.Days);
+        ArgumentOutOfRangeException.ThrowIfLessThan(scratch.Length, ScratchLength);
         rmsMisfitMm = double.NaN;
         var k = K;
         var g = scratch[..(k * k)];
         var b = scratch.Slice(k * k, k);
-        var gp = scratch.Slice((k * k) + k, kp * kp);
-        var bp = scratch.Slice((k * k) + k + (kp * kp), kp);
-        var ys = scratch.Slice((k * k) + k + (kp * kp) + kp, Layout.Days);
-        var ws = scratch.Slice((k * k) + k + (kp * kp) + kp + Layout.Days, Layout.Days);
-        gp.Clear();
-        bp.Clear();
-        double n = 0, yy = 0;
-        fixed (float* px = row)
-        fixed (double* pm = meanOrZero, pu = usable, pv = padded, pys = ys, pws = ws, pg = gp, pb = bp)
+        var ys = scratch.Slice((k * k) + k, P);
+        var ws = scratch.Slice((k * k) + k + P, P);
+        var sums = scratch.Slice((k * k) + k + (2 * P), 4 * (k + 1));
+        Span<float> xs = stackalloc float[P];
+        row[..Layout.Days].CopyTo(xs);
+        xs[Layout.Days..].Fill(float.NaN);
+        double n, yy;
+        fixed (float* px = xs)
+        fixed (double* pm = meanOrZero, pu = usable, pv = byComponent, pys = ys, pws = ws, pg = g, pb = b)
         {
-            for (var d = 0; d < Layout.Days; d++)
+            if (kq == 4)
             {
-                var x = px[d];
-                var observed = !float.IsNaN(x);
-                var ok = observed ? pu[d] : 0.0;
-                var y = ok * ((observed ? x : 0f) - pm[d]);
-                pys[d] = y;
-                pws[d] = ok;
-                n += ok;
-                yy += y * y;
-            }
-
-            if (n == 0)
-            {
-                coefficients.Fill(double.NaN);
-                residuals.Fill(double.NaN);
-                return;
-            }
-
-            if (kp == 4)
-            {
-                // K ≤ 4: the 4×4 normal equations live in registers.
-                var g0 = Vector256<double>.Zero;
-                var g1 = Vector256<double>.Zero;
-                var g2 = Vector256<double>.Zero;
-                var g3 = Vector256<double>.Zero;
-                var bb = Vector256<double>.Zero;
-                for (var d = 0; d < Layout.Days; d++)
-                {
-                    var v = pv + (d * 4);
-                    var vq = Vector256.Load(v);
-                    var wv = vq * pws[d];
-                    bb += vq * pys[d];
-                    g0 += vq * wv.GetElement(0);
-                    g1 += vq * wv.GetElement(1);
-                    g2 += vq * wv.GetElement(2);
-                    g3 += vq * wv.GetElement(3);
-                }
-
-                Vector256.Store(bb, pb);
-                Vector256.Store(g0, pg);
-                Vector256.Store(g1, pg + 4);
-                Vector256.Store(g2, pg + 8);
-                Vector256.Store(g3, pg + 12);
+                NormalEquations4(px, pm, pu, pv, pys, pws, pg, pb, k, out n, out yy);
             }
             else
             {
-                var quads = kp / 4;
-                for (var d = 0; d < Layout.Days; d++)
+                Centre(px, pm, pu, pys, pws, out n, out yy);
+                if (n > 0)
                 {
-                    var w = pws[d];
-                    var v = pv + (d * kp);
-                    var y = Vector256.Create(pys[d]);
-                    for (var q = 0; q < quads; q++)
-                    {
-                        var vq = Vector256.Load(v + (4 * q));
-                        var bq = Vector256.Load(pb + (4 * q));
-                        Vector256.Store(bq + (vq * y), pb + (4 * q));
-                        for (var a = 0; a < k; a++)
-                        {
-                            var ga = pg + (a * kp) + (4 * q);
-                            var va = Vector256.Create(v[a] * w);
-                            Vector256.Store(Vector256.Load(ga) + (vq * va), ga);
-                        }
-                    }
+                    NormalEquations(pv, pys, pws, pg, pb, k);
                 }
             }
         }
 
-        for (var a = 0; a < k; a++)
+        if (n == 0)
         {
-            b[a] = bp[a];
-            for (var c = 0; c < k; c++)
-            {
-                g[(a * k) + c] = gp[(a * kp) + c];
-            }
+            coefficients.Fill(double.NaN);
+            residuals.Fill(double.NaN);
+            return;
         }
 
         if (Ridge > 0)
@@ -187,7 +149,8 @@ internal sealed class GappyProjector
         }
 
         b.CopyTo(coefficients);
-        rmsMisfitMm = Math.Sqrt(Residuals(ys, ws, coefficients, residuals, yy) / n);
+        var sse = Residuals(ys, ws, coefficients, residuals, yy, sums, reconstruction);
+        rmsMisfitMm = Math.Sqrt(sse / n);
     }
 
     /// <summary>Coefficients of a complete (filled) centred row: plain dot products with the components (EM step).</summary>
@@ -210,51 +173,158 @@ internal sealed class GappyProjector
         }
     }
 
-    /// <summary>Writes the K+1 residuals and returns the sum of squares after all K components.</summary>
-    private unsafe double Residuals(ReadOnlySpan<double> ys, ReadOnlySpan<double> ws, ReadOnlySpan<double> c, Span<double> residuals, double yy)
+    /// <summary>y = (x − m) on observed usable days, 0 elsewhere; w the matching 0/1 mask (as a bit mask of whole doubles).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static unsafe void Load(float* px, double* pm, double* pu, int d, out Vector256<double> y, out Vector256<double> ok)
     {
-        var k = K;
-        residuals.Clear();
-        fixed (double* pys = ys, pws = ws, pc = c, pr = residuals, pv = padded)
+        var x4 = Vector128.Load(px + d);
+        var lo = Avx.IsSupported ? Avx.ConvertToVector256Double(x4) : Vector256.Create((double)x4[0], x4[1], x4[2], x4[3]);
+        ok = Vector256.Equals(lo, lo) & Vector256.Load(pu + d);
+        y = (lo - Vector256.Load(pm + d)) & ok;
+    }
+
+    /// <summary>K ≤ 4: G and b in registers, one pass over the days (components padded with zeros to 4).</summary>
+    [SkipLocalsInit]
+    private static unsafe void NormalEquations4(float* px, double* pm, double* pu, double* pv, double* pys, double* pws, double* pg, double* pb, int k, out double n, out double yy)
+    {
+        var one = Vector256.Create(1.0);
+        var nv = Vector256<double>.Zero;
+        var yyv = Vector256<double>.Zero;
+        Vector256<double> b0 = default, b1 = default, b2 = default, b3 = default;
+        Vector256<double> g00 = default, g01 = default, g02 = default, g03 = default, g11 = default, g12 = default, g13 = default, g22 = default, g23 = default, g33 = default;
+        for (var d = 0; d < P; d += 4)
         {
-            if (kp == 4)
+            Load(px, pm, pu, d, out var y, out var ok);
+            var w = one & ok;
+            Vector256.Store(y, pys + d);
+            Vector256.Store(w, pws + d);
+            nv += w;
+            yyv += y * y;
+            var v0 = Vector256.Load(pv + d);
+            var v1 = Vector256.Load(pv + P + d);
+            var v2 = Vector256.Load(pv + (2 * P) + d);
+            var v3 = Vector256.Load(pv + (3 * P) + d);
+            b0 += y * v0;
+            b1 += y * v1;
+            b2 += y * v2;
+            b3 += y * v3;
+            var u0 = v0 & ok;
+            var u1 = v1 & ok;
+            var u2 = v2 & ok;
+            var u3 = v3 & ok;
+            g00 += u0 * v0;
+            g01 += u0 * v1;
+            g02 += u0 * v2;
+            g03 += u0 * v3;
+            g11 += u1 * v1;
+            g12 += u1 * v2;
+            g13 += u1 * v3;
+            g22 += u2 * v2;
+            g23 += u2 * v3;
+            g33 += u3 * v3;
+        }
+
+        n = Vector256.Sum(nv);
+        yy = Vector256.Sum(yyv);
+        Span<double> full = stackalloc double[16];
+        full[0] = Vector256.Sum(g00);
+        full[1] = full[4] = Vector256.Sum(g01);
+        full[2] = full[8] = Vector256.Sum(g02);
+        full[3] = full[12] = Vector256.Sum(g03);
+        full[5] = Vector256.Sum(g11);
+        full[6] = full[9] = Vector256.Sum(g12);
+        full[7] = full[13] = Vector256.Sum(g13);
+        full[10] = Vector256.Sum(g22);
+        full[11] = full[14] = Vector256.Sum(g23);
+        full[15] = Vector256.Sum(g33);
+        Span<double> bb = [Vector256.Sum(b0), Vector256.Sum(b1), Vector256.Sum(b2), Vector256.Sum(b3)];
+        for (var a = 0; a < k; a++)
+        {
+            pb[a] = bb[a];
+            for (var c = 0; c < k; c++)
             {
-                // Running residuals r_a = y − Σ_{i≤a} c_i v_i as a 4-vector: prefix sums of c ⊙ v.
-                var cv = Vector256.Create(pc[0], k > 1 ? pc[1] : 0, k > 2 ? pc[2] : 0, k > 3 ? pc[3] : 0);
-                var acc = Vector256<double>.Zero;
-                for (var d = 0; d < Layout.Days; d++)
+                pg[(a * k) + c] = full[(a * 4) + c];
+            }
+        }
+    }
+
+    /// <summary>Any K: y and w for every day, and n and Σ y².</summary>
+    private static unsafe void Centre(float* px, double* pm, double* pu, double* pys, double* pws, out double n, out double yy)
+    {
+        var one = Vector256.Create(1.0);
+        var nv = Vector256<double>.Zero;
+        var yyv = Vector256<double>.Zero;
+        for (var d = 0; d < P; d += 4)
+        {
+            Load(px, pm, pu, d, out var y, out var ok);
+            var w = one & ok;
+            Vector256.Store(y, pys + d);
+            Vector256.Store(w, pws + d);
+            nv += w;
+            yyv += y * y;
+        }
+
+        n = Vector256.Sum(nv);
+        yy = Vector256.Sum(yyv);
+    }
+
+    /// <summary>Any K: G_ab = Σ (w v_a) v_b and b_a = Σ y v_a, one vector dot product per entry.</summary>
+    private static unsafe void NormalEquations(double* pv, double* pys, double* pws, double* pg, double* pb, int k)
+    {
+        for (var a = 0; a < k; a++)
+        {
+            var va = pv + (a * P);
+            var acc = Vector256<double>.Zero;
+            for (var d = 0; d < P; d += 4)
+            {
+                acc += Vector256.Load(pys + d) * Vector256.Load(va + d);
+            }
+
+            pb[a] = Vector256.Sum(acc);
+            for (var c = a; c < k; c++)
+            {
+                var vc = pv + (c * P);
+                acc = Vector256<double>.Zero;
+                for (var d = 0; d < P; d += 4)
                 {
-                    var t = cv * Vector256.Load(pv + (d * 4));
-                    var t0 = t.GetElement(0);
-                    var t01 = t0 + t.GetElement(1);
-                    var t012 = t01 + t.GetElement(2);
-                    var prefix = Vector256.Create(t0, t01, t012, t012 + t.GetElement(3));
-                    var r = Vector256.Create(pys[d]) - prefix;
-                    acc += r * r * pws[d];
+                    acc += Vector256.Load(va + d) * Vector256.Load(pws + d) * Vector256.Load(vc + d);
                 }
 
-                for (var a = 0; a < k; a++)
-                {
-                    pr[a + 1] = acc.GetElement(a);
-                }
+                pg[(a * k) + c] = pg[(c * k) + a] = Vector256.Sum(acc);
+            }
+        }
+    }
+
+    /// <summary>Writes the K+1 residuals (and the reconstruction when asked) and returns the sum of squares after all K components.</summary>
+    [SkipLocalsInit]
+    private unsafe double Residuals(ReadOnlySpan<double> ys, ReadOnlySpan<double> ws, ReadOnlySpan<double> c, Span<double> residuals, double yy, Span<double> sums, Span<double> reconstruction)
+    {
+        var k = K;
+        var withModel = reconstruction.Length >= Layout.Days;
+        Span<double> rec = withModel && reconstruction.Length >= P ? reconstruction : stackalloc double[withModel ? P : 0];
+        fixed (double* pys = ys, pws = ws, pc = c, pv = byComponent, pm = meanOrZero, pu = usable, pr = rec, ps = sums)
+        {
+            if (kq == 4)
+            {
+                Residuals4(pys, pws, pc, pv, pm, pu, pr, ps, k);
             }
             else
             {
-                for (var d = 0; d < Layout.Days; d++)
-                {
-                    var w = pws[d];
-                    var r = pys[d];
-                    var v = pv + (d * kp);
-                    for (var a = 0; a < k; a++)
-                    {
-                        r -= pc[a] * v[a];
-                        pr[a + 1] += w * r * r;
-                    }
-                }
+                ResidualsAny(pys, pws, pc, pv, pm, pu, pr, ps, k);
             }
         }
 
+        if (withModel && !Unsafe.AreSame(ref rec[0], ref reconstruction[0]))
+        {
+            rec[..Layout.Days].CopyTo(reconstruction);
+        }
+
         residuals[0] = yy;
+        for (var a = 1; a <= k; a++)
+        {
+            residuals[a] = sums[a];
+        }
+
         var sse = residuals[k];
         var scale = Math.Sqrt(yy);
         for (var a = 0; a <= k; a++)
@@ -263,6 +333,94 @@ internal sealed class GappyProjector
         }
 
         return sse;
+    }
+
+    /// <summary>
+    /// K ≤ 4: running residuals e_a = y − Σ_{i≤a} c_i v_i (prefix sums of c_i v_i), Σ w e_a² per a; reconstruction
+    /// ((m + c_1 v_1) + c_2 v_2) + …, +∞ where the mean is NaN. <paramref name="pr"/> null: no reconstruction.
+    /// </summary>
+    private static unsafe void Residuals4(double* pys, double* pws, double* pc, double* pv, double* pm, double* pu, double* pr, double* ps, int k)
+    {
+        var c0 = Vector256.Create(pc[0]);
+        var c1 = Vector256.Create(k > 1 ? pc[1] : 0);
+        var c2 = Vector256.Create(k > 2 ? pc[2] : 0);
+        var c3 = Vector256.Create(k > 3 ? pc[3] : 0);
+        Vector256<double> a0 = default, a1 = default, a2 = default, a3 = default;
+        var inf = Vector256.Create(double.PositiveInfinity);
+        for (var d = 0; d < P; d += 4)
+        {
+            var y = Vector256.Load(pys + d);
+            var w = Vector256.Load(pws + d);
+            var t0 = c0 * Vector256.Load(pv + d);
+            var t1 = c1 * Vector256.Load(pv + P + d);
+            var t2 = c2 * Vector256.Load(pv + (2 * P) + d);
+            var t3 = c3 * Vector256.Load(pv + (3 * P) + d);
+            var p1 = t0 + t1;
+            var p2 = p1 + t2;
+            var p3 = p2 + t3;
+            var e0 = y - t0;
+            var e1 = y - p1;
+            var e2 = y - p2;
+            var e3 = y - p3;
+            a0 += e0 * e0 * w;
+            a1 += e1 * e1 * w;
+            a2 += e2 * e2 * w;
+            a3 += e3 * e3 * w;
+            if (pr != null && d < Layout.Days)
+            {
+                var m = Vector256.Load(pm + d);
+                var rec = (((m + t0) + t1) + t2) + t3;
+                Vector256.Store(Vector256.ConditionalSelect(Vector256.Load(pu + d), rec, inf), pr + d);
+            }
+        }
+
+        ps[1] = Vector256.Sum(a0);
+        ps[2] = Vector256.Sum(a1);
+        ps[3] = Vector256.Sum(a2);
+        ps[4] = Vector256.Sum(a3);
+    }
+
+    /// <summary>Any K: as <see cref="Residuals4"/>, the K running sums kept in <paramref name="ps"/> as vectors.</summary>
+    private static unsafe void ResidualsAny(double* pys, double* pws, double* pc, double* pv, double* pm, double* pu, double* pr, double* ps, int k)
+    {
+        var acc = (Vector256<double>*)ps;
+        for (var a = 0; a <= k; a++)
+        {
+            acc[a] = Vector256<double>.Zero;
+        }
+
+        var inf = Vector256.Create(double.PositiveInfinity);
+        for (var d = 0; d < P; d += 4)
+        {
+            var y = Vector256.Load(pys + d);
+            var w = Vector256.Load(pws + d);
+            var prefix = Vector256<double>.Zero;
+            var rec = pr != null ? Vector256.Load(pm + d) : default;
+            for (var a = 0; a < k; a++)
+            {
+                var t = Vector256.Create(pc[a]) * Vector256.Load(pv + (a * P) + d);
+                prefix = a == 0 ? t : prefix + t;
+                rec += t;
+                var e = y - prefix;
+                acc[a + 1] += e * e * w;
+            }
+
+            if (pr != null && d < Layout.Days)
+            {
+                Vector256.Store(Vector256.ConditionalSelect(Vector256.Load(pu + d), rec, inf), pr + d);
+            }
+        }
+
+        var sums = stackalloc double[k + 1];
+        for (var a = 1; a <= k; a++)
+        {
+            sums[a] = Vector256.Sum(acc[a]);
+        }
+
+        for (var a = 1; a <= k; a++)
+        {
+            ps[a] = sums[a];
+        }
     }
 }
 

@@ -1,3 +1,8 @@
+using System.Numerics;
+using System.Runtime.CompilerServices;
+using System.Runtime.Intrinsics;
+using System.Runtime.Intrinsics.X86;
+
 namespace Spatial.Fitting.Internal;
 
 /// <summary>
@@ -23,6 +28,11 @@ namespace Spatial.Fitting.Internal;
 /// snow days), see <see cref="SeasonMetrics"/>. The model only ever decides whether a gap flanked by bare ground stayed
 /// bare; no depth and no edge is taken from it.
 /// </summary>
+/// <remarks>
+/// Day states are kept as bit masks of the 365 days (observed, snow, bridged, modelled bare, unknown), and missing runs
+/// are walked with bit scans, so a season costs in proportion to its runs, not its days. Sums over days (the centroid)
+/// run in day order, as written in the definitions.
+/// </remarks>
 internal static class MetricCalculator
 {
     /// <summary>
@@ -39,14 +49,20 @@ internal static class MetricCalculator
     /// </summary>
     public const double PeakMarginMisfits = 2.0;
 
-    private const byte Bare = 0;
-    private const byte Snow = 1;
-    private const byte Unknown = 2;
-    private const byte Missing = 3;
+    /// <summary>Length a reconstruction buffer handed to <see cref="Compute(ReadOnlySpan{float}, MetricOptions, ReadOnlySpan{double}, double)"/> may have at most use of (days padded for vector stores).</summary>
+    public const int ReconstructionLength = Layout.PaddedDays;
+
+    private const int D = Layout.Days;
+
+    /// <summary>64-bit words of a day mask (384 bits ≥ 365 days; bits 365… always clear).</summary>
+    private const int Words = 6;
+
+    /// <summary>Floats of a row copy padded with NaN to whole 8-float vectors.</summary>
+    private const int PaddedFloats = Words * 64;
 
     /// <summary>Metrics without a model: every missing run that is not bridged is of unknown state.</summary>
-    public static SeasonMetrics Compute(ReadOnlySpan<float> row, MetricOptions options, Span<byte> state, Span<bool> bridged) =>
-        Compute(row, options, state, bridged, default, default, default);
+    public static SeasonMetrics Compute(ReadOnlySpan<float> row, MetricOptions options) =>
+        Compute(row, options, default, double.NaN);
 
     /// <summary>
     /// Metrics of <paramref name="row"/> (365 days, NaN = missing). <paramref name="mean"/> (365, NaN = never observed),
@@ -58,158 +74,154 @@ internal static class MetricCalculator
     public static SeasonMetrics Compute(
         ReadOnlySpan<float> row,
         MetricOptions options,
-        Span<byte> state,
-        Span<bool> bridged,
         ReadOnlySpan<double> mean,
         ReadOnlySpan<double> componentsByDay,
         ReadOnlySpan<double> coefficients,
         double rmsMisfitMm = double.NaN)
     {
         var d = row.Length;
-        var t = options.ThresholdMm;
-        var anyObserved = false;
-        for (var i = 0; i < d; i++)
-        {
-            var x = row[i];
-            bridged[i] = false;
-            if (float.IsNaN(x))
-            {
-                state[i] = Missing;
-            }
-            else
-            {
-                anyObserved = true;
-                state[i] = x >= t ? Snow : Bare;
-            }
-        }
-
-        if (!anyObserved)
-        {
-            return SeasonMetrics.Unknown;
-        }
-
-        var model = coefficients.Length > 0 && mean.Length == d && componentsByDay.Length == d * coefficients.Length;
+        var k = coefficients.Length;
+        var model = k > 0 && mean.Length == d && componentsByDay.Length == d * k;
         foreach (var c in coefficients)
         {
             model &= double.IsFinite(c);
         }
 
+        if (!model)
+        {
+            return Compute(row, options);
+        }
+
+        var reconstruction = new double[d];
+        for (var j = 0; j < d; j++)
+        {
+            var x = mean[j];
+            if (double.IsNaN(x))
+            {
+                reconstruction[j] = double.PositiveInfinity;
+                continue;
+            }
+
+            var v = componentsByDay.Slice(j * k, k);
+            for (var q = 0; q < k; q++)
+            {
+                x += coefficients[q] * v[q];
+            }
+
+            reconstruction[j] = x;
+        }
+
+        var rms = double.IsNaN(rmsMisfitMm) ? RmsMisfit(row, mean, componentsByDay, coefficients) : rmsMisfitMm;
+        return Compute(row, options, reconstruction, rms);
+    }
+
+    /// <summary>
+    /// Metrics of <paramref name="row"/> (365 days, NaN = missing) given the season's reconstruction m_d + Σ_k c_k v_kd
+    /// (<paramref name="reconstruction"/>, 365 days or more, +∞ on a day whose mean is NaN; empty = no model) and its RMS
+    /// misfit on the observed days, mm (used with a model only).
+    /// </summary>
+    [SkipLocalsInit]
+    public static SeasonMetrics Compute(ReadOnlySpan<float> row, MetricOptions options, ReadOnlySpan<double> reconstruction, double rmsMisfitMm)
+    {
+        ArgumentOutOfRangeException.ThrowIfNotEqual(row.Length, D);
+        var model = reconstruction.Length >= D;
+        var t = options.ThresholdMm;
+        Span<float> xs = stackalloc float[PaddedFloats];
+        row.CopyTo(xs);
+        xs[D..].Fill(float.NaN);
+        Span<ulong> observed = stackalloc ulong[Words];
+        Span<ulong> snow = stackalloc ulong[Words];
+        DayMasks(xs, SnowThreshold(t), observed, snow);
+        if (IsEmpty(observed))
+        {
+            return SeasonMetrics.Unknown;
+        }
+
+        // Missing runs: bridged (the flanks' state), modelled bare, or unknown.
+        Span<ulong> missing = stackalloc ulong[Words];
+        Span<ulong> bridged = stackalloc ulong[Words];
+        Span<ulong> modelled = stackalloc ulong[Words];
+        Span<ulong> unknown = stackalloc ulong[Words];
+        bridged.Clear();
+        modelled.Clear();
+        unknown.Clear();
+        for (var w = 0; w < Words; w++)
+        {
+            missing[w] = ~observed[w] & ValidDays(w);
+        }
+
+        BridgeShortRuns(missing, snow, bridged, options.BridgeDays);
         var anyUnknown = false;
         var modelledDays = 0;
 
         // Largest reconstruction inside any unknown-state run (+∞ without a model): such a run could hold the season's
         // largest depth only if the season's own curve comes near the observed maximum there.
         var hiddenMax = double.NegativeInfinity;
-        for (var i = 0; i < d;)
+        for (var a = NextSet(missing, 0); a < D;)
         {
-            if (state[i] != Missing)
+            // Runs bridged in bulk are gone from the missing mask; a longer bridgeable run (bridge days ≥ 64) is bridged here.
+            var end = NextClear(missing, a);
+            var b = end - 1;
+            var length = end - a;
+            var leftSnow = a > 0 && Test(snow, a - 1);
+            var rightSnow = b < D - 1 && Test(snow, b + 1);
+            if (a > 0 && b < D - 1 && length <= options.BridgeDays && leftSnow == rightSnow)
             {
-                i++;
-                continue;
-            }
-
-            var a = i;
-            while (i < d && state[i] == Missing)
-            {
-                i++;
-            }
-
-            var b = i - 1;
-            var length = b - a + 1;
-            var leftBare = a == 0 || state[a - 1] == Bare;
-            var rightBare = b == d - 1 || state[b + 1] == Bare;
-            byte fill = Unknown;
-            var bridge = false;
-            if (a > 0 && b < d - 1 && length <= options.BridgeDays && state[a - 1] == state[b + 1])
-            {
-                fill = state[a - 1];
-                bridge = true;
+                SetRange(bridged, a, end);
+                if (leftSnow)
+                {
+                    SetRange(snow, a, end);
+                }
             }
             else
             {
-                var top = model ? ReconstructionMax(mean, componentsByDay, coefficients, a, b) : double.PositiveInfinity;
-                if (leftBare && rightBare && top < t)
+                var top = model ? RangeMax(reconstruction, a, b) : double.PositiveInfinity;
+                if (!leftSnow && !rightSnow && top < t)
                 {
-                    fill = Bare;
+                    SetRange(modelled, a, end);
                     modelledDays += length;
                 }
                 else
                 {
                     hiddenMax = Math.Max(hiddenMax, top);
+                    SetRange(unknown, a, end);
+                    anyUnknown = true;
                 }
             }
 
-            for (var j = a; j <= b; j++)
-            {
-                state[j] = fill;
-                bridged[j] = bridge;
-            }
-
-            anyUnknown |= fill == Unknown;
+            a = NextSet(missing, end);
         }
 
-        // Onset and melt-out.
-        var first = -1;
-        var unknownBeforeFirst = false;
-        for (var i = 0; i < d; i++)
-        {
-            if (state[i] == Snow)
-            {
-                first = i;
-                break;
-            }
-
-            unknownBeforeFirst |= state[i] == Unknown;
-        }
-
-        var last = -1;
-        var unknownAfterLast = false;
-        for (var i = d - 1; i >= 0; i--)
-        {
-            if (state[i] == Snow)
-            {
-                last = i;
-                break;
-            }
-
-            unknownAfterLast |= state[i] == Unknown;
-        }
-
-        var onset = first >= 0 && !unknownBeforeFirst ? first : double.NaN;
-        var meltout = last >= 0 && !unknownAfterLast ? last : double.NaN;
+        // Onset and melt-out: known when no unknown day lies before the first (after the last) snow day.
+        var first = NextSet(snow, 0);
+        var last = PreviousSet(snow);
+        var onset = first < D && NextSet(unknown, 0) > first ? first : double.NaN;
+        var meltout = last >= 0 && PreviousSet(unknown) < last ? last : double.NaN;
 
         // Longest cover: known when no stretch of snow-or-unknown days is longer than the longest snow run.
-        int longestSnow = 0, longestMaybe = 0, runSnow = 0, runMaybe = 0, snowDays = 0;
-        for (var i = 0; i < d; i++)
+        var longestSnow = LongestRun(snow);
+        var longest = (double)longestSnow;
+        if (anyUnknown)
         {
-            runSnow = state[i] == Snow ? runSnow + 1 : 0;
-            runMaybe = state[i] != Bare ? runMaybe + 1 : 0;
-            longestSnow = Math.Max(longestSnow, runSnow);
-            longestMaybe = Math.Max(longestMaybe, runMaybe);
-            snowDays += state[i] == Snow ? 1 : 0;
-        }
+            Span<ulong> maybe = stackalloc ulong[Words];
+            for (var w = 0; w < Words; w++)
+            {
+                maybe[w] = snow[w] | unknown[w];
+            }
 
-        var longest = longestMaybe == longestSnow ? longestSnow : double.NaN;
+            longest = LongestRun(maybe) == longestSnow ? longestSnow : double.NaN;
+        }
 
         // Peak: the largest observed depth (bridged and modelled days have none); not searched when already unknowable.
         var peakDepth = double.NaN;
         var peakAt = double.NaN;
         if (hiddenMax != double.PositiveInfinity)
         {
-            var peak = double.NegativeInfinity;
-            var peakDay = -1;
-            for (var i = 0; i < d; i++)
-            {
-                if (!float.IsNaN(row[i]) && row[i] > peak)
-                {
-                    peak = row[i];
-                    peakDay = i;
-                }
-            }
-
-            var bordersGap = (peakDay > 0 && float.IsNaN(row[peakDay - 1])) || (peakDay < d - 1 && float.IsNaN(row[peakDay + 1]));
+            var peakDay = FirstMaximum(xs);
+            var peak = peakDay >= 0 ? xs[peakDay] : double.NegativeInfinity;
+            var bordersGap = (peakDay > 0 && float.IsNaN(row[peakDay - 1])) || (peakDay < D - 1 && float.IsNaN(row[peakDay + 1]));
             var peakKnown = !bordersGap
-                && (hiddenMax == double.NegativeInfinity || hiddenMax < peak - (PeakMarginMisfits * (double.IsNaN(rmsMisfitMm) ? RmsMisfit(row, mean, componentsByDay, coefficients) : rmsMisfitMm)));
+                && (hiddenMax == double.NegativeInfinity || hiddenMax < peak - (PeakMarginMisfits * rmsMisfitMm));
             peakDepth = peakKnown ? peak : double.NaN;
             peakAt = peakKnown && peak >= t ? peakDay : double.NaN;
         }
@@ -219,8 +231,120 @@ internal static class MetricCalculator
             return new SeasonMetrics(onset, meltout, longest, double.NaN, peakDepth, peakAt, double.NaN) { ModelledBareDays = modelledDays };
         }
 
-        var centroid = Centroid(row, bridged, state, t, modelledDays);
-        return new SeasonMetrics(onset, meltout, longest, snowDays, peakDepth, peakAt, centroid) { ModelledBareDays = modelledDays };
+        var centroid = Centroid(xs, observed, bridged, modelled, t, modelledDays);
+        return new SeasonMetrics(onset, meltout, longest, PopCount(snow), peakDepth, peakAt, centroid) { ModelledBareDays = modelledDays };
+    }
+
+    /// <summary>
+    /// Bridges, all at once, every missing run of at most <paramref name="bridgeDays"/> days (up to 63) that lies inside
+    /// the season and whose two flanking observed days are on the same side of the threshold: marks its days in
+    /// <paramref name="bridged"/>, in <paramref name="snow"/> when the flanks are snow, and removes them from
+    /// <paramref name="missing"/>. Runs of each length k are found with shifts of the masks: a run starts where a day is
+    /// missing and the day before is not, is k long where days i…i+k−1 are missing and day i+k is not.
+    /// </summary>
+    private static void BridgeShortRuns(Span<ulong> missing, Span<ulong> snow, Span<ulong> bridged, int bridgeDays)
+    {
+        var m = new DayBits(missing);
+        var longest = Math.Min(bridgeDays, 63);
+        if (longest < 1 || m.IsEmpty)
+        {
+            return;
+        }
+
+        var s = new DayBits(snow);
+        var starts = m.AndNot(m.Later(1));
+        var leftSnow = s.Later(1);
+        var runsAtLeast = m;
+        DayBits days = default, snowDays = default;
+        for (var k = 1; k <= longest; k++)
+        {
+            var next = m.Earlier(k);
+            var agree = (starts & runsAtLeast).AndNot(next) & DayBits.Range(1, D - 1 - k) & ~(leftSnow ^ s.Earlier(k));
+            if (!agree.IsEmpty)
+            {
+                var run = agree;
+                var snowRun = agree & leftSnow;
+                for (var j = 1; j < k; j++)
+                {
+                    run |= agree.Later(j);
+                    snowRun |= (agree & leftSnow).Later(j);
+                }
+
+                days |= run;
+                snowDays |= snowRun;
+            }
+
+            runsAtLeast &= next;
+            if ((runsAtLeast & starts).IsEmpty)
+            {
+                break;
+            }
+        }
+
+        days.CopyTo(bridged);
+        (s | snowDays).CopyTo(snow);
+        m.AndNot(days).CopyTo(missing);
+    }
+
+    /// <summary>The least float f with (double)f ≥ <paramref name="threshold"/>: for every float x, x ≥ f exactly when (double)x ≥ threshold.</summary>
+    internal static float SnowThreshold(double threshold)
+    {
+        var f = (float)threshold;
+        return f < threshold ? MathF.BitIncrement(f) : f;
+    }
+
+    /// <summary>Bit masks of the observed days and of the observed days at or above <paramref name="threshold"/>, 8 days at a time.</summary>
+    private static void DayMasks(ReadOnlySpan<float> xs, float threshold, Span<ulong> observed, Span<ulong> snow)
+    {
+        var tv = Vector256.Create(threshold);
+        for (var w = 0; w < Words; w++)
+        {
+            ulong o = 0, s = 0;
+            for (var q = 0; q < 8; q++)
+            {
+                var v = Vector256.Create(xs.Slice((w * 64) + (q * 8), 8));
+                o |= (ulong)Vector256.Equals(v, v).ExtractMostSignificantBits() << (q * 8);
+                s |= (ulong)Vector256.GreaterThanOrEqual(v, tv).ExtractMostSignificantBits() << (q * 8);
+            }
+
+            observed[w] = o;
+            snow[w] = s;
+        }
+    }
+
+    /// <summary>Index of the first largest observed value of <paramref name="xs"/> (NaN = missing), −1 when no observed value exceeds −∞.</summary>
+    private static int FirstMaximum(ReadOnlySpan<float> xs)
+    {
+        var none = Vector256.Create(float.NegativeInfinity);
+        var top = none;
+        for (var i = 0; i < PaddedFloats; i += 8)
+        {
+            var v = Vector256.Create(xs.Slice(i, 8));
+            top = Avx.IsSupported ? Avx.Max(top, Vector256.ConditionalSelect(Vector256.Equals(v, v), v, none)) : Vector256.Max(top, Vector256.ConditionalSelect(Vector256.Equals(v, v), v, none));
+        }
+
+        var m = float.NegativeInfinity;
+        for (var lane = 0; lane < 8; lane++)
+        {
+            m = Math.Max(m, top[lane]);
+        }
+
+        if (m == float.NegativeInfinity)
+        {
+            return -1;
+        }
+
+        var mv = Vector256.Create(m);
+        for (var i = 0; i < PaddedFloats; i += 8)
+        {
+            var hits = Vector256.Equals(Vector256.Create(xs.Slice(i, 8)), mv).ExtractMostSignificantBits();
+            if (hits != 0)
+            {
+                return i + BitOperations.TrailingZeroCount(hits);
+            }
+        }
+
+        return -1;
     }
 
     /// <summary>√(mean over observed days with a mean of (x_d − m_d − Σ_k c_k v_kd)²), mm.</summary>
@@ -250,23 +374,16 @@ internal static class MetricCalculator
         return n > 0 ? Math.Sqrt(sum / n) : double.PositiveInfinity;
     }
 
-    /// <summary>Largest m_d + Σ_k c_k v_kd over days a…b; +∞ when the mean is NaN on one of them.</summary>
-    private static double ReconstructionMax(ReadOnlySpan<double> mean, ReadOnlySpan<double> byDay, ReadOnlySpan<double> c, int a, int b)
+    /// <summary>Largest reconstruction over days a…b; +∞ as soon as one of them has none (+∞).</summary>
+    private static double RangeMax(ReadOnlySpan<double> reconstruction, int a, int b)
     {
-        var k = c.Length;
         var top = double.NegativeInfinity;
         for (var j = a; j <= b; j++)
         {
-            var x = mean[j];
-            if (double.IsNaN(x))
+            var x = reconstruction[j];
+            if (x == double.PositiveInfinity)
             {
                 return double.PositiveInfinity;
-            }
-
-            var v = byDay.Slice(j * k, k);
-            for (var q = 0; q < k; q++)
-            {
-                x += c[q] * v[q];
             }
 
             top = Math.Max(top, x);
@@ -282,42 +399,49 @@ internal static class MetricCalculator
     /// minimum, i.e. a prefix of those days in day order (the maximum: a suffix) — and it is reported as the middle of
     /// that range only when the range is at most <see cref="CentroidToleranceDays"/>; otherwise NaN.
     /// </summary>
-    private static double Centroid(ReadOnlySpan<float> row, ReadOnlySpan<bool> bridged, ReadOnlySpan<byte> state, double t, int modelledDays)
+    /// <remarks>Sums run in day order; days without a depth add nothing, so only the stretch between the first and the
+    /// last nonzero depth is summed.</remarks>
+    [SkipLocalsInit]
+    private static double Centroid(ReadOnlySpan<float> xs, ReadOnlySpan<ulong> observed, ReadOnlySpan<ulong> bridged, ReadOnlySpan<ulong> modelled, double t, int modelledDays)
     {
-        var d = row.Length;
-        double weighted = 0, total = 0, modelledDaySum = 0;
-        for (var i = 0; i < d;)
+        Span<double> depth = stackalloc double[PaddedFloats];
+        for (var i = 0; i < PaddedFloats; i += 8)
         {
-            if (!bridged[i])
-            {
-                if (float.IsNaN(row[i]))
-                {
-                    modelledDaySum += i;
-                }
-                else
-                {
-                    weighted += (double)i * row[i];
-                    total += row[i];
-                }
+            var (lo, hi) = Vector256.Widen(Vector256.Create(xs.Slice(i, 8)));
+            (lo & Vector256.Equals(lo, lo)).CopyTo(depth.Slice(i, 4));
+            (hi & Vector256.Equals(hi, hi)).CopyTo(depth.Slice(i + 4, 4));
+        }
 
-                i++;
-                continue;
+        for (var a = NextSet(bridged, 0); a < D;)
+        {
+            var end = NextClear(bridged, a);
+            double left = xs[a - 1], right = xs[end];
+            var span = end - a + 1;
+            for (var j = a; j < end; j++)
+            {
+                depth[j] = left + ((right - left) * (j - a + 1) / span);
             }
 
-            var a = i;
-            while (i < d && bridged[i])
-            {
-                i++;
-            }
+            a = NextSet(bridged, end);
+        }
 
-            double left = row[a - 1], right = row[i];
-            var span = i - a + 1;
-            for (var j = a; j < i; j++)
-            {
-                var x = left + ((right - left) * (j - a + 1) / span);
-                weighted += j * x;
-                total += x;
-            }
+        var from = 0;
+        while (from < D && depth[from] == 0)
+        {
+            from++;
+        }
+
+        var to = D - 1;
+        while (to > from && depth[to] == 0)
+        {
+            to--;
+        }
+
+        double weighted = 0, total = 0;
+        for (var i = from; i <= to; i++)
+        {
+            weighted += i * depth[i];
+            total += depth[i];
         }
 
         if (modelledDays == 0)
@@ -330,15 +454,16 @@ internal static class MetricCalculator
             return double.NaN;
         }
 
+        long modelledDaySum = 0;
+        for (var i = NextSet(modelled, 0); i < D; i = NextSet(modelled, i + 1))
+        {
+            modelledDaySum += i;
+        }
+
         // Prefixes (minimum) and suffixes (maximum) of the modelled days in day order, each day at depth t.
         double low = weighted / total, high = low, prefixDays = 0, prefixCount = 0;
-        for (var i = 0; i < d; i++)
+        for (var i = NextSet(modelled, 0); i < D; i = NextSet(modelled, i + 1))
         {
-            if (state[i] != Bare || !float.IsNaN(row[i]) || bridged[i])
-            {
-                continue;
-            }
-
             prefixDays += i;
             prefixCount++;
             low = Math.Min(low, (weighted + (t * prefixDays)) / (total + (t * prefixCount)));
@@ -348,5 +473,192 @@ internal static class MetricCalculator
         }
 
         return high - low <= CentroidToleranceDays ? (low + high) / 2 : double.NaN;
+    }
+
+    /// <summary>365 day bits in six words, with shifts that carry across words; bits 365… stay clear.</summary>
+    private readonly struct DayBits
+    {
+        private const ulong LastWord = (1UL << (D % 64)) - 1;
+
+        private readonly ulong w0, w1, w2, w3, w4, w5;
+
+        public DayBits(ReadOnlySpan<ulong> words)
+            : this(words[0], words[1], words[2], words[3], words[4], words[5])
+        {
+        }
+
+        private DayBits(ulong w0, ulong w1, ulong w2, ulong w3, ulong w4, ulong w5)
+        {
+            this.w0 = w0;
+            this.w1 = w1;
+            this.w2 = w2;
+            this.w3 = w3;
+            this.w4 = w4;
+            this.w5 = w5 & LastWord;
+        }
+
+        public bool IsEmpty => (w0 | w1 | w2 | w3 | w4 | w5) == 0;
+
+        public static DayBits operator &(DayBits a, DayBits b) => new(a.w0 & b.w0, a.w1 & b.w1, a.w2 & b.w2, a.w3 & b.w3, a.w4 & b.w4, a.w5 & b.w5);
+
+        public static DayBits operator |(DayBits a, DayBits b) => new(a.w0 | b.w0, a.w1 | b.w1, a.w2 | b.w2, a.w3 | b.w3, a.w4 | b.w4, a.w5 | b.w5);
+
+        public static DayBits operator ^(DayBits a, DayBits b) => new(a.w0 ^ b.w0, a.w1 ^ b.w1, a.w2 ^ b.w2, a.w3 ^ b.w3, a.w4 ^ b.w4, a.w5 ^ b.w5);
+
+        public static DayBits operator ~(DayBits a) => new(~a.w0, ~a.w1, ~a.w2, ~a.w3, ~a.w4, ~a.w5);
+
+        /// <summary>Days d with d ≥ <paramref name="first"/> and d ≤ <paramref name="last"/> (empty when last &lt; first).</summary>
+        public static DayBits Range(int first, int last)
+        {
+            if (last < first)
+            {
+                return default;
+            }
+
+            Span<ulong> w = stackalloc ulong[Words];
+            w.Clear();
+            SetRange(w, first, last + 1);
+            return new DayBits(w);
+        }
+
+        public DayBits AndNot(DayBits b) => new(w0 & ~b.w0, w1 & ~b.w1, w2 & ~b.w2, w3 & ~b.w3, w4 & ~b.w4, w5 & ~b.w5);
+
+        /// <summary>Bit d holds day d − <paramref name="k"/> (1 ≤ k ≤ 63).</summary>
+        public DayBits Later(int k)
+        {
+            var r = 64 - k;
+            return new(w0 << k, (w1 << k) | (w0 >> r), (w2 << k) | (w1 >> r), (w3 << k) | (w2 >> r), (w4 << k) | (w3 >> r), (w5 << k) | (w4 >> r));
+        }
+
+        /// <summary>Bit d holds day d + <paramref name="k"/> (1 ≤ k ≤ 63).</summary>
+        public DayBits Earlier(int k)
+        {
+            var r = 64 - k;
+            return new((w0 >> k) | (w1 << r), (w1 >> k) | (w2 << r), (w2 >> k) | (w3 << r), (w3 >> k) | (w4 << r), (w4 >> k) | (w5 << r), w5 >> k);
+        }
+
+        public void CopyTo(Span<ulong> words)
+        {
+            words[0] = w0;
+            words[1] = w1;
+            words[2] = w2;
+            words[3] = w3;
+            words[4] = w4;
+            words[5] = w5;
+        }
+    }
+
+    /// <summary>Bits of word <paramref name="w"/> that are days of the season (0…364).</summary>
+    private static ulong ValidDays(int w) => w < D / 64 ? ulong.MaxValue : w == D / 64 ? (1UL << (D % 64)) - 1 : 0;
+
+    private static bool Test(ReadOnlySpan<ulong> mask, int day) => ((mask[day >> 6] >> (day & 63)) & 1) != 0;
+
+    private static bool IsEmpty(ReadOnlySpan<ulong> mask)
+    {
+        foreach (var w in mask)
+        {
+            if (w != 0)
+            {
+                return false;
+            }
+        }
+
+        return true;
+    }
+
+    private static int PopCount(ReadOnlySpan<ulong> mask)
+    {
+        var n = 0;
+        foreach (var w in mask)
+        {
+            n += BitOperations.PopCount(w);
+        }
+
+        return n;
+    }
+
+    /// <summary>First set bit at or after <paramref name="from"/>; the mask's bit length when there is none.</summary>
+    private static int NextSet(ReadOnlySpan<ulong> mask, int from)
+    {
+        var w = from >> 6;
+        if (w >= mask.Length)
+        {
+            return mask.Length * 64;
+        }
+
+        var bits = mask[w] & (ulong.MaxValue << (from & 63));
+        while (bits == 0)
+        {
+            if (++w == mask.Length)
+            {
+                return mask.Length * 64;
+            }
+
+            bits = mask[w];
+        }
+
+        return (w * 64) + BitOperations.TrailingZeroCount(bits);
+    }
+
+    /// <summary>First clear bit at or after <paramref name="from"/>; the mask's bit length when there is none.</summary>
+    private static int NextClear(ReadOnlySpan<ulong> mask, int from)
+    {
+        var w = from >> 6;
+        if (w >= mask.Length)
+        {
+            return mask.Length * 64;
+        }
+
+        var bits = ~mask[w] & (ulong.MaxValue << (from & 63));
+        while (bits == 0)
+        {
+            if (++w == mask.Length)
+            {
+                return mask.Length * 64;
+            }
+
+            bits = ~mask[w];
+        }
+
+        return (w * 64) + BitOperations.TrailingZeroCount(bits);
+    }
+
+    /// <summary>Last set bit; −1 when there is none.</summary>
+    private static int PreviousSet(ReadOnlySpan<ulong> mask)
+    {
+        for (var w = mask.Length - 1; w >= 0; w--)
+        {
+            if (mask[w] != 0)
+            {
+                return (w * 64) + 63 - BitOperations.LeadingZeroCount(mask[w]);
+            }
+        }
+
+        return -1;
+    }
+
+    /// <summary>Sets bits [<paramref name="from"/>, <paramref name="end"/>).</summary>
+    private static void SetRange(Span<ulong> mask, int from, int end)
+    {
+        for (var w = from >> 6; w <= (end - 1) >> 6; w++)
+        {
+            var lo = w == from >> 6 ? from & 63 : 0;
+            var hi = w == (end - 1) >> 6 ? (end - 1) & 63 : 63;
+            mask[w] |= (ulong.MaxValue >> (63 - hi)) & (ulong.MaxValue << lo);
+        }
+    }
+
+    /// <summary>Length of the longest run of set bits.</summary>
+    private static int LongestRun(ReadOnlySpan<ulong> mask)
+    {
+        var longest = 0;
+        for (var a = NextSet(mask, 0); a < mask.Length * 64;)
+        {
+            var end = NextClear(mask, a);
+            longest = Math.Max(longest, end - a);
+            a = NextSet(mask, end);
+        }
+
+        return longest;
     }
 }

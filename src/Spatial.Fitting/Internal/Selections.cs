@@ -12,23 +12,46 @@ internal static class Selections
         var selections = new ComponentSelection[k];
         for (var c = 0; c < k; c++)
         {
+            // One pass: the admitted seasons are counted and offered to both ends, in row order.
+            var high = new TopRows(n);
+            var low = new TopRows(n);
+            var admitted = 0;
+            foreach (var r in train)
+            {
+                var v = scores.Coefficient(r, c);
+                if (scores.Residual(r, c + 1) < options.SelectionResidual && double.IsFinite(v))
+                {
+                    admitted++;
+                    high.Offer(-v, r);
+                    low.Offer(v, r);
+                }
+            }
+
             var cc = c;
-            var admitted = train.Where(r => scores.Residual(r, cc + 1) < options.SelectionResidual && double.IsFinite(scores.Coefficient(r, cc))).ToArray();
-            var high = Top(admitted, r => scores.Coefficient(r, cc), n, descending: true);
-            var low = Top(admitted, r => scores.Coefficient(r, cc), n, descending: false);
             selections[c] = new ComponentSelection(
                 c + 1,
                 options.SelectionResidual,
-                admitted.Length,
-                high.Select(r => Pick(scores, r, scores.Coefficient(r, cc), scores.Residual(r, cc + 1))).ToArray(),
-                low.Select(r => Pick(scores, r, scores.Coefficient(r, cc), scores.Residual(r, cc + 1))).ToArray());
+                admitted,
+                high.Rows().Select(r => Pick(scores, r, scores.Coefficient(r, cc), scores.Residual(r, cc + 1))).ToArray(),
+                low.Rows().Select(r => Pick(scores, r, scores.Coefficient(r, cc), scores.Residual(r, cc + 1))).ToArray());
         }
 
-        var described = train.Where(r => double.IsFinite(scores.Residual(r, k))).ToArray();
-        var best = Top(described, r => scores.Residual(r, k), n, descending: false)
+        var bestRows = new TopRows(n);
+        var worstRows = new TopRows(n);
+        foreach (var r in train)
+        {
+            var v = scores.Residual(r, k);
+            if (double.IsFinite(v))
+            {
+                bestRows.Offer(v, r);
+                worstRows.Offer(-v, r);
+            }
+        }
+
+        var best = bestRows.Rows()
             .Select(r => Pick(scores, r, scores.Residual(r, k), scores.Residual(r, k)) with { Detail = "well described by the components" })
             .ToArray();
-        var worst = Top(described, r => scores.Residual(r, k), n, descending: true)
+        var worst = worstRows.Rows()
             .Select(r =>
             {
                 var (cause, detail) = Interpreter.Diagnose(matrix.Row(r), basis.Mean, basis.Components, scores.CoefficientRow(r));
@@ -41,37 +64,33 @@ internal static class Selections
     private static SelectedSeason Pick(SeasonScores scores, int row, double value, double residual) =>
         new(scores.Keys[row].Station, scores.Keys[row].Season, value, residual, string.Empty, string.Empty);
 
-    /// <summary>The <paramref name="n"/> rows with the largest (or smallest) key, ties by row order; a bounded insertion, linear in the rows.</summary>
-    internal static int[] Top(int[] rows, Func<int, double> key, int n, bool descending)
+    /// <summary>The <paramref name="n"/> rows with the smallest keys offered, ties by the order offered; a bounded insertion, linear in the offers.</summary>
+    private sealed class TopRows(int n)
     {
-        var best = new List<(double Key, int Row)>(n + 1);
-        foreach (var r in rows)
+        private readonly double[] keys = new double[n + 1];
+        private readonly int[] rows = new int[n + 1];
+        private int count;
+
+        public void Offer(double key, int row)
         {
-            var v = key(r);
-            if (!double.IsFinite(v))
+            if (count == n && (n == 0 || key >= keys[count - 1]))
             {
-                continue;
+                return;
             }
 
-            var s = descending ? -v : v;
-            if (best.Count == n && s >= best[^1].Key)
+            var at = count;
+            while (at > 0 && keys[at - 1] > key)
             {
-                continue;
-            }
-
-            var at = best.Count;
-            while (at > 0 && best[at - 1].Key > s)
-            {
+                keys[at] = keys[at - 1];
+                rows[at] = rows[at - 1];
                 at--;
             }
 
-            best.Insert(at, (s, r));
-            if (best.Count > n)
-            {
-                best.RemoveAt(best.Count - 1);
-            }
+            keys[at] = key;
+            rows[at] = row;
+            count = Math.Min(count + 1, n);
         }
 
-        return best.Select(b => b.Row).ToArray();
+        public int[] Rows() => rows.AsSpan(0, count).ToArray();
     }
 }

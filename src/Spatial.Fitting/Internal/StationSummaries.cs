@@ -31,34 +31,47 @@ internal static class StationSummaries
         }
 
         var names = Names(scores.K);
-        var result = new StationSummary[groups.Count];
-        Parallel.For(0, groups.Count, po, g =>
+        var longest = 0;
+        foreach (var (start, end) in groups)
         {
-            var (start, end) = groups[g];
-            var stats = new SummaryStatistic[names.Length];
-            for (var q = 0; q < names.Length; q++)
+            longest = Math.Max(longest, end - start);
+        }
+
+        var result = new StationSummary[groups.Count];
+        Parallel.For(
+            0,
+            groups.Count,
+            po,
+            () => (X: new double[longest], Y: new double[longest], Sorted: new double[longest]),
+            (g, _, buffers) =>
             {
-                var xs = new List<double>();
-                var ys = new List<double>();
-                for (var t = start; t < end; t++)
+                var (start, end) = groups[g];
+                var stats = new SummaryStatistic[names.Length];
+                for (var q = 0; q < names.Length; q++)
                 {
-                    var r = train[t];
-                    var v = q < scores.K ? scores.Coefficient(r, q) : scores.Metrics(r)[q - scores.K];
-                    if (double.IsFinite(v))
+                    var n = 0;
+                    for (var t = start; t < end; t++)
                     {
-                        xs.Add(scores.Keys[r].Season);
-                        ys.Add(v);
+                        var r = train[t];
+                        var v = q < scores.K ? scores.Coefficient(r, q) : scores.Metric(r, q - scores.K);
+                        if (double.IsFinite(v))
+                        {
+                            buffers.X[n] = scores.Keys[r].Season;
+                            buffers.Y[n] = v;
+                            n++;
+                        }
                     }
+
+                    var seasons = end - start;
+                    stats[q] = q >= scores.K && n < MinKnownFraction * seasons
+                        ? new SummaryStatistic(names[q], n, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN)
+                        : Summarise(names[q], buffers.X.AsSpan(0, n), buffers.Y.AsSpan(0, n), buffers.Sorted);
                 }
 
-                var seasons = end - start;
-                stats[q] = q >= scores.K && ys.Count < MinKnownFraction * seasons
-                    ? new SummaryStatistic(names[q], ys.Count, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN)
-                    : Summarise(names[q], xs.ToArray(), ys.ToArray());
-            }
-
-            result[g] = new StationSummary(scores.Keys[train[start]].Station, end - start, stats);
-        });
+                result[g] = new StationSummary(scores.Keys[train[start]].Station, end - start, stats);
+                return buffers;
+            },
+            _ => { });
         return result;
     }
 
@@ -66,10 +79,12 @@ internal static class StationSummaries
     public static string[] Names(int k) =>
         [.. Enumerable.Range(1, k).Select(c => $"c{c}"), .. SeasonMetrics.Names];
 
-    internal static SummaryStatistic Summarise(string name, double[] x, double[] y)
+    /// <summary>Median, IQR, Mann–Kendall and Sen's slope of <paramref name="y"/> against <paramref name="x"/>; <paramref name="scratch"/> at least as long as y.</summary>
+    internal static SummaryStatistic Summarise(string name, ReadOnlySpan<double> x, ReadOnlySpan<double> y, Span<double> scratch)
     {
-        var sorted = (double[])y.Clone();
-        Array.Sort(sorted);
+        var sorted = scratch[..y.Length];
+        y.CopyTo(sorted);
+        sorted.Sort();
         var median = Trend.Quantile(sorted, 0.5);
         var iqr = sorted.Length > 0 ? Trend.Quantile(sorted, 0.75) - Trend.Quantile(sorted, 0.25) : double.NaN;
         var mk = Trend.MannKendall(x, y);

@@ -1,3 +1,6 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
+using System.Runtime.Intrinsics;
 using MathNet.Numerics;
 
 namespace Spatial.Fitting.Internal;
@@ -22,9 +25,16 @@ internal static class Trend
             return new MannKendallResult(n, double.NaN, double.NaN, double.NaN, double.NaN);
         }
 
-        var order = IsAscending(x) ? null : SortedOrder(x);
+        var strictly = IsStrictlyAscending(x);
+        var order = strictly || IsAscending(x) ? null : SortedOrder(x);
         long s = 0;
-        for (var i = 0; i < n; i++)
+        for (var i = 0; i < n && strictly; i++)
+        {
+            // x strictly ascending: every pair counts, and sign(y_j − y_i) = [y_j > y_i] − [y_j < y_i] for finite y.
+            s += SignSum(y[(i + 1)..], y[i]);
+        }
+
+        for (var i = 0; i < n && !strictly; i++)
         {
             var oi = order is null ? i : order[i];
             for (var j = i + 1; j < n; j++)
@@ -80,7 +90,15 @@ internal static class Trend
 
         var slopes = System.Buffers.ArrayPool<double>.Shared.Rent(n * (n - 1) / 2);
         var m = 0;
-        for (var i = 0; i < n; i++)
+        var strictly = IsStrictlyAscending(x);
+        for (var i = 0; i < n && strictly; i++)
+        {
+            // x strictly ascending: every pair has a slope, written in the same order as below.
+            Slopes(x[(i + 1)..], y[(i + 1)..], x[i], y[i], slopes.AsSpan(m, n - 1 - i));
+            m += n - 1 - i;
+        }
+
+        for (var i = 0; i < n && !strictly; i++)
         {
             for (var j = i + 1; j < n; j++)
             {
@@ -99,67 +117,85 @@ internal static class Trend
         }
 
         var span = slopes.AsSpan(0, m);
-        var upper = Select(span, m / 2);
-        var median = m % 2 == 1 ? upper : 0.5 * (Max(span[..(m / 2)]) + upper);
+        var work = System.Buffers.ArrayPool<double>.Shared.Rent(m);
+        var spare = System.Buffers.ArrayPool<double>.Shared.Rent(m);
+        var upper = OrderStatistic(span, m / 2, work, spare);
+        var median = m % 2 == 1 ? upper : 0.5 * (OrderStatistic(span, (m / 2) - 1, work, spare) + upper);
+        System.Buffers.ArrayPool<double>.Shared.Return(spare);
+        System.Buffers.ArrayPool<double>.Shared.Return(work);
         System.Buffers.ArrayPool<double>.Shared.Return(slopes);
         return median;
     }
 
-    /// <summary>The value of rank <paramref name="rank"/> (0-based) of <paramref name="v"/>, which is reordered so that v[..rank] ≤ v[rank] (Hoare's selection).</summary>
-    internal static double Select(Span<double> v, int rank)
+    /// <summary>
+    /// The value of rank <paramref name="rank"/> (0-based, ascending) among <paramref name="values"/> (no NaN), which
+    /// are left as they are; <paramref name="work"/> and <paramref name="spare"/>, each at least as long, are overwritten.
+    /// </summary>
+    /// <remarks>
+    /// Quickselect (Hoare 1961) with a three-way partition written without branches: each value is stored both after the
+    /// smaller ones and before the larger ones found so far, and only the matching end moves; the values equal to the
+    /// pivot are left in the middle (a comparison is added as its byte, 0 or 1). The partitions alternate between the two buffers. A range of 16 or fewer values, or
+    /// one still open after 64 partitions, is sorted. (A Floyd–Rivest sample to bracket the rank first gained nothing on
+    /// the 1,225 slopes of a 50-season station.)
+    /// </remarks>
+    internal static double OrderStatistic(ReadOnlySpan<double> values, int rank, Span<double> work, Span<double> spare)
     {
-        int lo = 0, hi = v.Length - 1;
-        while (lo < hi)
+        ArgumentOutOfRangeException.ThrowIfNegative(rank);
+        ArgumentOutOfRangeException.ThrowIfGreaterThanOrEqual(rank, values.Length);
+        ArgumentOutOfRangeException.ThrowIfLessThan(work.Length, values.Length);
+        ArgumentOutOfRangeException.ThrowIfLessThan(spare.Length, values.Length);
+        var from = work[..values.Length];
+        var to = spare[..values.Length];
+        values.CopyTo(from);
+        int lo = 0, hi = values.Length;
+        for (var pass = 0; ; pass++)
         {
-            var pivot = v[lo + ((hi - lo) / 2)];
-            int i = lo, j = hi;
-            while (i <= j)
+            var n = hi - lo;
+            if (n <= 16 || pass == 64)
             {
-                while (v[i] < pivot)
-                {
-                    i++;
-                }
-
-                while (v[j] > pivot)
-                {
-                    j--;
-                }
-
-                if (i <= j)
-                {
-                    (v[i], v[j]) = (v[j], v[i]);
-                    i++;
-                    j--;
-                }
+                var range = from[lo..hi];
+                range.Sort();
+                return range[rank - lo];
             }
 
-            if (rank <= j)
+            var pivot = MedianOfThree(from[lo], from[lo + (n / 2)], from[hi - 1]);
+            int less = lo, greater = hi;
+
+            // lo ≤ less ≤ greater − 1 < hi before every store: at most i − lo values have moved an end.
+            ref var source = ref MemoryMarshal.GetReference(from);
+            ref var target = ref MemoryMarshal.GetReference(to);
+            for (var i = lo; i < hi; i++)
             {
-                hi = j;
+                var x = Unsafe.Add(ref source, i);
+                Unsafe.Add(ref target, less) = x;
+                Unsafe.Add(ref target, greater - 1) = x;
+                var isLess = x < pivot;
+                var isGreater = x > pivot;
+                less += Unsafe.As<bool, byte>(ref isLess);
+                greater -= Unsafe.As<bool, byte>(ref isGreater);
             }
-            else if (rank >= i)
+
+            if (rank < less)
             {
-                lo = i;
+                hi = less;
+            }
+            else if (rank >= greater)
+            {
+                lo = greater;
             }
             else
             {
-                break;
+                return pivot;
             }
-        }
 
-        return v[rank];
+            var swap = from;
+            from = to;
+            to = swap;
+        }
     }
 
-    private static double Max(ReadOnlySpan<double> v)
-    {
-        var m = double.NegativeInfinity;
-        foreach (var x in v)
-        {
-            m = Math.Max(m, x);
-        }
-
-        return m;
-    }
+    private static double MedianOfThree(double a, double b, double c) =>
+        a < b ? (b < c ? b : (a < c ? c : a)) : (a < c ? a : (b < c ? c : b));
 
     /// <summary>Quantile of sorted values by linear interpolation between order statistics (Hyndman &amp; Fan 1996 type 7, numpy's default); NaN when empty.</summary>
     public static double Quantile(ReadOnlySpan<double> sorted, double probability)
@@ -173,6 +209,66 @@ internal static class Trend
         var lo = (int)Math.Floor(h);
         var hi = Math.Min(lo + 1, sorted.Length - 1);
         return sorted[lo] + ((h - lo) * (sorted[hi] - sorted[lo]));
+    }
+
+    /// <summary>Σ_j sign(y_j − <paramref name="yi"/>) over finite <paramref name="y"/>, four at a time.</summary>
+    private static long SignSum(ReadOnlySpan<double> y, double yi)
+    {
+        var j = 0;
+        long s = 0;
+        if (Vector256.IsHardwareAccelerated)
+        {
+            var pivot = Vector256.Create(yi);
+            var acc = Vector256<long>.Zero;
+            for (; j + 4 <= y.Length; j += 4)
+            {
+                var v = Vector256.Create(y.Slice(j, 4));
+                // Comparison masks are −1 where true: (lt − gt) counts +1 for y_j > y_i.
+                acc += Vector256.LessThan(v, pivot).AsInt64() - Vector256.GreaterThan(v, pivot).AsInt64();
+            }
+
+            s = Vector256.Sum(acc);
+        }
+
+        for (; j < y.Length; j++)
+        {
+            s += Math.Sign(y[j] - yi);
+        }
+
+        return s;
+    }
+
+    /// <summary>(y_j − <paramref name="yi"/>) / (x_j − <paramref name="xi"/>) for every j, into <paramref name="slopes"/>.</summary>
+    private static void Slopes(ReadOnlySpan<double> x, ReadOnlySpan<double> y, double xi, double yi, Span<double> slopes)
+    {
+        var j = 0;
+        if (Vector256.IsHardwareAccelerated)
+        {
+            var px = Vector256.Create(xi);
+            var py = Vector256.Create(yi);
+            for (; j + 4 <= y.Length; j += 4)
+            {
+                ((Vector256.Create(y.Slice(j, 4)) - py) / (Vector256.Create(x.Slice(j, 4)) - px)).CopyTo(slopes.Slice(j, 4));
+            }
+        }
+
+        for (; j < y.Length; j++)
+        {
+            slopes[j] = (y[j] - yi) / (x[j] - xi);
+        }
+    }
+
+    private static bool IsStrictlyAscending(ReadOnlySpan<double> x)
+    {
+        for (var i = 1; i < x.Length; i++)
+        {
+            if (!(x[i] > x[i - 1]))
+            {
+                return false;
+            }
+        }
+
+        return true;
     }
 
     private static bool IsAscending(ReadOnlySpan<double> x)
