@@ -81,10 +81,17 @@ public sealed class FitCliBenchmark : IBenchmark
             cts.Cancel();
             sampler.Wait();
 
-            // The writers again, best of two, on the same result.
+            // The writers again on the same result, best of two: over the files just written, and into new folders.
             var names = new[] { ResultLayout.Basis, ResultLayout.Seasons, ResultLayout.Stations, ResultLayout.Interpretation };
             var outBytes = names.Sum(n => new FileInfo(Path.Combine(outDir, n)).Length);
             var writeBest = BenchReport.BestSeconds(2, () => FitFiles.Write(outDir, result));
+            var fresh = 0;
+            var writeNew = BenchReport.BestSeconds(2, () =>
+            {
+                var into = Path.Combine(folder, FormattableString.Invariant($"out-new-{fresh++}"));
+                FitFiles.Write(into, result);
+                Directory.Delete(into, recursive: true);
+            });
             var blob = new byte[outBytes];
             Array.Fill(blob, (byte)'7');
             var bareWrite = BenchReport.BestSeconds(2, () => AtomicFile.Write(Path.Combine(folder, "bare.bin"), s => s.Write(blob)));
@@ -98,8 +105,9 @@ public sealed class FitCliBenchmark : IBenchmark
             report.Figure("fit (SeasonalFit.Fit)", fit, "s");
             report.Figure("outputs written", outBytes / 1e6, "MB");
             report.Figure("baseline: bare atomic write of as many bytes", bareWrite, "s");
-            report.Figure("write (FitFiles.Write), first", write, "s");
-            report.Figure("write (FitFiles.Write), best of 2", writeBest, "s");
+            report.Figure("write (FitFiles.Write), first (as the fit verb)", write, "s");
+            report.Figure("write (FitFiles.Write) over the same files, best of 2", writeBest, "s");
+            report.Figure("write (FitFiles.Write) into a new folder, best of 2", writeNew, "s");
             report.Figure("write ÷ bare write", writeBest / bareWrite, "×");
             report.Figure("read + fit + write", whole, "s");
             report.Figure("read + fit + write ÷ 10 s", whole / 10, "×");

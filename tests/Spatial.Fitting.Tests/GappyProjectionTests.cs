@@ -36,6 +36,34 @@ public sealed class GappyProjectionTests
     }
 
     [Fact]
+    public void Given_curves_in_the_span_of_seven_components_When_projected_Then_coefficients_are_recovered_and_residuals_fall_to_zero_at_the_last()
+    {
+        // More than four components: the normal equations are summed one entry at a time (not in registers).
+        var basis = Synthetic.OrthonormalBasis(7, seed: 21);
+        var mean = Synthetic.MeanCurve();
+        var (matrix, truth) = Synthetic.LowRank(mean, basis, [300, 200, 150, 100, 80, 60, 40], rows: 100, missing: 0.3, seed: 22);
+        var projector = new GappyProjector(mean, basis, ridge: 0);
+        var c = new double[7];
+        var res = new double[8];
+        var scratch = new double[projector.ScratchLength];
+        for (var r = 0; r < matrix.Rows; r++)
+        {
+            projector.Project(matrix.Row(r), c, res, scratch);
+            for (var k = 0; k < 7; k++)
+            {
+                Tolerance.Near(truth[(r * 7) + k], c[k], CoefficientToleranceMm, $"row {r} c{k + 1}");
+            }
+
+            Assert.Equal(1.0, res[0], 12);
+            Tolerance.Near(0, res[7], ResidualTolerance, $"row {r} residual_7");
+            for (var k = 1; k < 7; k++)
+            {
+                Assert.True(res[k] >= res[7] - ResidualTolerance, $"row {r} residual_{k} below residual_7");
+            }
+        }
+    }
+
+    [Fact]
     public void A_curve_off_the_span_has_residual_equal_to_the_share_of_the_orthogonal_part()
     {
         // x − m = 3 v1 + 4 w with w ⟂ span: residual_0 = 1, residual_1 = 4/5 (complete curve), by Pythagoras.

@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Runtime.CompilerServices;
 using System.Text;
 
 namespace Spatial.Fitting.Internal;
@@ -8,6 +9,8 @@ namespace Spatial.Fitting.Internal;
 /// culture, comma separated, "\n" line ends, doubles in round-trip form (<c>double.ToString("R")</c>), empty for a
 /// value that is not finite, a field quoted when it holds a comma, quote or line break.
 /// </summary>
+/// <remarks>The appenders are compiled optimised at once: they run millions of times in one call of the fit verb, too
+/// soon for the runtime to have promoted them from unoptimised code.</remarks>
 internal sealed class Utf8Csv
 {
     private static readonly Encoding Utf8 = new UTF8Encoding(encoderShouldEmitUTF8Identifier: false);
@@ -26,6 +29,7 @@ internal sealed class Utf8Csv
     public void Clear() => Length = 0;
 
     /// <summary>Appends one ASCII character.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public void Char(char c)
     {
         Reserve(1);
@@ -33,6 +37,7 @@ internal sealed class Utf8Csv
     }
 
     /// <summary>Appends bytes of ASCII text as they are.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Ascii(ReadOnlySpan<byte> text)
     {
         Reserve(text.Length);
@@ -41,6 +46,7 @@ internal sealed class Utf8Csv
     }
 
     /// <summary>Appends a text field, quoted as CSV needs (the encoding of the last text is kept: rows of one station repeat it).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Text(string s)
     {
         if (!ReferenceEquals(s, lastText))
@@ -56,6 +62,7 @@ internal sealed class Utf8Csv
     }
 
     /// <summary>Appends <paramref name="value"/> as <c>ToString(CultureInfo.InvariantCulture)</c> writes it.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Int(int value)
     {
         Reserve(11);
@@ -64,6 +71,7 @@ internal sealed class Utf8Csv
     }
 
     /// <summary>Appends <paramref name="value"/> as <c>ToString("R", CultureInfo.InvariantCulture)</c> writes it; nothing when it is not finite.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Number(double value)
     {
         if (!double.IsFinite(value))
@@ -87,6 +95,7 @@ internal sealed class Utf8Csv
         Length += n;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private void Reserve(int bytes)
     {
         if (Length + bytes > buffer.Length)
