@@ -78,18 +78,7 @@ public sealed class FitBenchmark : IBenchmark
 
         // The whole fit.
         FitResult? result = null;
-        var peak = 0L;
-        using var cts = new CancellationTokenSource();
-        var sampler = Task.Run(() =>
-        {
-            var p = Process.GetCurrentProcess();
-            while (!cts.IsCancellationRequested)
-            {
-                p.Refresh();
-                peak = Math.Max(peak, p.WorkingSet64);
-                Thread.Sleep(20);
-            }
-        });
+        using var memory = new PeakWorkingSet();
         var stages = new List<(string, double)>();
         // Each stage with the page faults it took (a first touch of fresh memory is expensive on some virtual machines).
         var lastFaults = MinorFaults();
@@ -102,8 +91,7 @@ public sealed class FitBenchmark : IBenchmark
         var cpuBefore = Process.GetCurrentProcess().TotalProcessorTime;
         var fitSeconds = BenchReport.BestSeconds(1, () => result = SeasonalFit.Fit(matrix, new FitOptions(Components: 4, MaxThreads: threads)));
         var cpuSeconds = (Process.GetCurrentProcess().TotalProcessorTime - cpuBefore).TotalSeconds;
-        cts.Cancel();
-        sampler.Wait();
+        memory.Stop();
         StageTimer.Sink = null;
         foreach (var (stage, seconds) in stages)
         {
@@ -115,7 +103,7 @@ public sealed class FitBenchmark : IBenchmark
         report.Figure("whole fit, process CPU time (all threads)", cpuSeconds, "s");
         report.Figure("CPU time ÷ cores (wall time on an idle machine, at best)", cpuSeconds / Environment.ProcessorCount, "s");
         report.Figure("wall time ÷ (CPU time ÷ cores): slowdown from sharing", fitSeconds / (cpuSeconds / Environment.ProcessorCount), "×");
-        report.Figure("peak working set during fit ÷ float32 matrix", peak / matrixBytes, "×");
+        report.Figure("peak working set during fit ÷ float32 matrix", memory.Peak / matrixBytes, "×");
         report.Figure("working set before fit ÷ float32 matrix", rssBefore / matrixBytes, "×");
         report.Line(FormattableString.Invariant($"  labels {string.Join(',', result!.Basis.Labels)}; variance fraction {result.Basis.CumulativeFraction[^1]:F4}; managed heap before {before / 1e9:F2} GB; sink {sink:G3}"));
     }

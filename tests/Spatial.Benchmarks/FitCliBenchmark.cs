@@ -51,18 +51,7 @@ public sealed class FitCliBenchmark : IBenchmark
                 }
             });
 
-            var peak = 0L;
-            using var cts = new CancellationTokenSource();
-            var sampler = Task.Run(() =>
-            {
-                var p = Process.GetCurrentProcess();
-                while (!cts.IsCancellationRequested)
-                {
-                    p.Refresh();
-                    peak = Math.Max(peak, p.WorkingSet64);
-                    Thread.Sleep(20);
-                }
-            });
+            using var memory = new PeakWorkingSet();
 
             var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
             var total = Stopwatch.StartNew();
@@ -78,8 +67,7 @@ public sealed class FitCliBenchmark : IBenchmark
             var write = sw.Elapsed.TotalSeconds;
             var whole = total.Elapsed.TotalSeconds;
             var cpu = (Process.GetCurrentProcess().TotalProcessorTime - cpu0).TotalSeconds;
-            cts.Cancel();
-            sampler.Wait();
+            memory.Stop();
 
             // The writers again on the same result, best of two: over the files just written, and into new folders.
             var names = new[] { ResultLayout.Basis, ResultLayout.Seasons, ResultLayout.Stations, ResultLayout.Interpretation };
@@ -113,7 +101,7 @@ public sealed class FitCliBenchmark : IBenchmark
             report.Figure("read + fit + write ÷ 10 s", whole / 10, "×");
             report.Figure("process CPU time (all threads)", cpu, "s");
             report.Figure("wall time ÷ (CPU time ÷ cores): slowdown from sharing", whole / (cpu / Environment.ProcessorCount), "×");
-            report.Figure("peak working set ÷ float32 matrix", peak / matrixBytes, "×");
+            report.Figure("peak working set ÷ float32 matrix", memory.Peak / matrixBytes, "×");
             foreach (var n in names)
             {
                 report.Line(FormattableString.Invariant($"  {n}: {new FileInfo(Path.Combine(outDir, n)).Length} bytes"));

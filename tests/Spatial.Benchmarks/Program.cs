@@ -45,6 +45,46 @@ public sealed class BenchReport(TextWriter output)
     public void Line(string text) => output.WriteLine(text);
 }
 
+/// <summary>Samples the process's working set every 20 ms until stopped; <see cref="Peak"/> is the largest seen, bytes.</summary>
+public sealed class PeakWorkingSet : IDisposable
+{
+    private readonly CancellationTokenSource stop = new();
+    private readonly Task sampler;
+    private long peak;
+
+    /// <summary>Starts sampling.</summary>
+    public PeakWorkingSet()
+    {
+        sampler = Task.Run(() =>
+        {
+            using var p = Process.GetCurrentProcess();
+            while (!stop.IsCancellationRequested)
+            {
+                p.Refresh();
+                Interlocked.Exchange(ref peak, Math.Max(Interlocked.Read(ref peak), p.WorkingSet64));
+                Thread.Sleep(20);
+            }
+        });
+    }
+
+    /// <summary>The largest working set sampled so far, bytes.</summary>
+    public long Peak => Interlocked.Read(ref peak);
+
+    /// <summary>Stops sampling and waits for the sampler.</summary>
+    public void Stop()
+    {
+        stop.Cancel();
+        sampler.Wait();
+    }
+
+    /// <inheritdoc/>
+    public void Dispose()
+    {
+        Stop();
+        stop.Dispose();
+    }
+}
+
 /// <summary>Runs benchmarks by name: <c>dotnet run -c Release --project tests/Spatial.Benchmarks -- NAME [args]</c>.</summary>
 public static class Program
 {
