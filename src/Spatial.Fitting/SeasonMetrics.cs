@@ -45,12 +45,17 @@ public readonly record struct SeasonMetrics(
     public static SeasonMetrics Unknown { get; } = new(double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, double.NaN);
 
     /// <summary>The metrics in the order of <see cref="Names"/>.</summary>
-    public double[] ToArray() => [OnsetDay, MeltoutDay, LongestCoverDays, SnowDays, PeakDepthMm, PeakDay, CentroidDay];
+    public double[] ToArray()
+    {
+        var values = new double[Count];
+        CopyTo(values);
+        return values;
+    }
 
     /// <summary>Writes the metrics in the order of <see cref="Names"/> into <paramref name="destination"/>.</summary>
     internal void CopyTo(Span<double> destination)
     {
-        destination[6] = CentroidDay;
+        destination[6] = CentroidDay; // the last index first: one bounds check for all seven
         destination[0] = OnsetDay;
         destination[1] = MeltoutDay;
         destination[2] = LongestCoverDays;

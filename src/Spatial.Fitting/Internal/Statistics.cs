@@ -5,48 +5,10 @@ namespace Spatial.Fitting.Internal;
 /// <summary>Small statistics used by the interpretation and the sampling errors.</summary>
 internal static class Statistics
 {
-    /// <summary>Pearson correlation over pairs where both are finite; NaN with fewer than 3 pairs or zero variance.</summary>
-    public static double Pearson(Func<int, double> x, Func<int, double> y, IReadOnlyList<int> rows)
-    {
-        double n = 0, mx = 0, my = 0;
-        foreach (var r in rows)
-        {
-            var a = x(r);
-            var b = y(r);
-            if (double.IsFinite(a) && double.IsFinite(b))
-            {
-                n++;
-                mx += a;
-                my += b;
-            }
-        }
-
-        if (n < 3)
-        {
-            return double.NaN;
-        }
-
-        mx /= n;
-        my /= n;
-        double sxx = 0, syy = 0, sxy = 0;
-        foreach (var r in rows)
-        {
-            var a = x(r);
-            var b = y(r);
-            if (double.IsFinite(a) && double.IsFinite(b))
-            {
-                sxx += (a - mx) * (a - mx);
-                syy += (b - my) * (b - my);
-                sxy += (a - mx) * (b - my);
-            }
-        }
-
-        return sxx > 0 && syy > 0 ? sxy / Math.Sqrt(sxx * syy) : double.NaN;
-    }
-
     /// <summary>
     /// Pearson correlation of coefficient <paramref name="component"/> with every metric, over the rows where both are
-    /// finite: the same sums, in the same row order, as <see cref="Pearson"/> for each metric, in one pass per moment.
+    /// finite (NaN with fewer than 3 pairs or zero variance): two passes over the rows (means, then centred sums), all
+    /// metrics at once, each metric's sums in row order.
     /// </summary>
     public static double[] PearsonWithMetrics(SeasonScores scores, int component, int[] rows)
     {
